@@ -1,0 +1,298 @@
+// pack(job): lays the parts of a job onto its stock and returns a validated plan.
+import { areaBound, bigItemBound, dffBound, type BoundItem } from "./bounds";
+import type { BinContext, FillParams, Orient } from "./fill";
+import { layoutPanel, type RectUm } from "./layout";
+import { mulberry32 } from "./prng";
+import {
+  basicKey,
+  constructive,
+  downsize,
+  fullSheets,
+  lexLess,
+  ORDER_COUNT,
+  ruinAndRecreate,
+  type SearchInput,
+  type Solution,
+  type StockSlot,
+} from "./search";
+import { deriveSetups } from "./setups";
+import type { Job, PackOptions, Plan, Rect, SheetPlan, Unplaced } from "./types";
+import { mmToUm, um2ToMm2, umToMm } from "./units";
+import { validatePlan } from "./validate";
+
+export const DEFAULT_MIN_OFFCUT = { shortSide: 100, area: 40_000 };
+
+export function guillotineVariants(): FillParams[] {
+  const v: FillParams[] = [];
+  for (let rc = 0; rc < 4; rc++) for (let sp = 0; sp < 6; sp++) v.push({ kind: "guillotine", rectChoice: rc, split: sp, driver: "item" });
+  for (const rc of [0, 1, 3]) for (let sp = 0; sp < 6; sp++) v.push({ kind: "guillotine", rectChoice: rc, split: sp, driver: "rect" });
+  return v;
+}
+
+export function stagedVariants(stages: 2 | 3): FillParams[] {
+  const v: FillParams[] = [];
+  for (const homogeneous of [false, true])
+    for (let opener = 0; opener < 3; opener++)
+      for (const sectionByOpener of stages === 3 ? [true, false] : [false])
+        v.push({ kind: "staged", stages, opener, sectionByOpener, homogeneous });
+  return v;
+}
+
+interface Prepared {
+  job: Job;
+  kerf: number;
+  slots: StockSlot[];
+  trimOf: number[];
+  usable: { L: number; W: number }[];
+  typePart: number[];
+  demand: Int32Array;
+  unplaced: Unplaced[];
+  lowerBoundItems: BoundItem[];
+}
+
+function prepare(job: Job): Prepared {
+  const kerf = mmToUm(job.kerf);
+  const trim = mmToUm(job.trim);
+  const staged = job.stages !== 0;
+  const lim = job.limits ?? {};
+  const stripLimits = [lim.ripMax, lim.sledWidthMax].filter((v): v is number => typeof v === "number");
+  const stripMaxReal = staged && stripLimits.length ? mmToUm(Math.min(...stripLimits)) : Infinity;
+  const parts = job.parts.filter((p) => p.quantity > 0);
+  const typePart = parts.map((p) => job.parts.indexOf(p));
+  const usable = job.stock.map((s) => {
+    const t = s.trimmed ? trim : 0;
+    return { L: mmToUm(s.length) - 2 * t, W: mmToUm(s.width) - 2 * t };
+  });
+  const trimOf = job.stock.map((s) => (s.trimmed ? trim : 0));
+  const reasonNoLimit: boolean[] = parts.map(() => false);
+  const slots: StockSlot[] = job.stock.map((s, si) => {
+    const { L, W } = usable[si];
+    const orients: Orient[][] = parts.map((p, ti) => {
+      if (L <= 0 || W <= 0) return [];
+      const l = mmToUm(p.length);
+      const w = mmToUm(p.width);
+      const opts: Orient[] = [{ w: l + kerf, h: w + kerf, rot: false }];
+      if (l !== w && (p.rotate || s.grain === "none")) opts.push({ w: w + kerf, h: l + kerf, rot: true });
+      const fit = opts.filter((o) => o.w <= L + kerf && o.h <= W + kerf);
+      if (fit.length) reasonNoLimit[ti] = true;
+      return fit.filter((o) => o.h - kerf <= stripMaxReal);
+    });
+    const ctx: BinContext = { W: L + kerf, H: W + kerf, orients, stripMax: stripMaxReal === Infinity ? Infinity : stripMaxReal + kerf };
+    return {
+      ctx,
+      quantity: s.quantity === null ? Infinity : s.quantity,
+      cost: s.cost,
+      offcut: !s.trimmed,
+      area: (L + kerf) * (W + kerf),
+    };
+  });
+  const unplaced: Unplaced[] = [];
+  const demand = new Int32Array(parts.length);
+  parts.forEach((p, ti) => {
+    const fits = slots.some((s) => s.ctx.orients[ti].length > 0);
+    if (fits) {
+      demand[ti] = p.quantity;
+      return;
+    }
+    let reason: string;
+    if (reasonNoLimit[ti]) {
+      reason = `wider than the machine limits allow in every orientation (strips at most ${umToMm(stripMaxReal)} mm: ripMax/sledWidthMax)`;
+    } else if (!p.rotate && job.stock.some((s, si) => {
+      const { L, W } = usable[si];
+      return mmToUm(p.width) <= L && mmToUm(p.length) <= W;
+    })) {
+      reason = "fits no panel with its length along the grain (grain locked, rotate: false)";
+    } else {
+      reason = "fits no panel in either allowed orientation";
+    }
+    unplaced.push({ partId: p.id, quantity: p.quantity, reason });
+  });
+  const lowerBoundItems: BoundItem[] = parts.map((p, ti) => {
+    // orientations allowed on some panel (union), for a bound valid on every panel
+    const set = new Map<string, [number, number]>();
+    for (const s of slots) for (const o of s.ctx.orients[ti]) set.set(`${o.w}x${o.h}`, [o.w, o.h]);
+    return { count: demand[ti], orients: [...set.values()] };
+  });
+  return { job, kerf, slots, trimOf, usable, typePart, demand, unplaced, lowerBoundItems };
+}
+
+function lowerBound(prep: Prepared, counts: Int32Array): number {
+  const items = prep.lowerBoundItems.map((it, t) => ({ ...it, count: counts[t] })).filter((it) => it.count > 0);
+  if (items.length === 0) return 0;
+  const bins = prep.slots.map((s) => ({ W: s.ctx.W, H: s.ctx.H })).filter((b) => b.W > 0 && b.H > 0);
+  let lb = Math.max(areaBound(items, bins), bigItemBound(items, bins));
+  const sizes = new Set(bins.map((b) => `${b.W}x${b.H}`));
+  if (sizes.size === 1) lb = Math.max(lb, dffBound(items, bins[0]));
+  return lb;
+}
+
+interface Built {
+  plan: Plan;
+  sol: Solution;
+}
+
+function buildPlan(prep: Prepared, sol: Solution, elapsed: number): Plan {
+  const { job, kerf } = prep;
+  const minOff = job.minOffcut ?? DEFAULT_MIN_OFFCUT;
+  const minShort = mmToUm(minOff.shortSide);
+  const minArea = minOff.area * 1e6;
+  let stockArea = 0;
+  let partsArea = 0;
+  let kerfArea = 0;
+  let offcutArea = 0;
+  const allCuts: { kind: "breakdown" | "rip" | "crosscut"; setting: number }[] = [];
+  const toRect = (r: RectUm): Rect => ({ x: umToMm(r.x), y: umToMm(r.y), length: umToMm(r.w), width: umToMm(r.h) });
+  const sheets: SheetPlan[] = sol.bins.map((b) => {
+    const st = job.stock[b.s];
+    const t = prep.trimOf[b.s];
+    const { L, W } = prep.usable[b.s];
+    const rects: RectUm[] = b.placed.map((p) => ({ x: t + p.x, y: t + p.y, w: p.w - kerf, h: p.h - kerf }));
+    const lay = layoutPanel({ x: t, y: t, w: L, h: W }, rects, kerf, job.stages);
+    stockArea += mmToUm(st.length) * mmToUm(st.width);
+    for (const r of rects) partsArea += r.w * r.h;
+    kerfArea += lay.kerfArea;
+    const offcuts: Rect[] = [];
+    const scrap: Rect[] = [];
+    for (const r of lay.leftovers) {
+      if (Math.min(r.w, r.h) >= minShort && r.w * r.h >= minArea) {
+        offcuts.push(toRect(r));
+        offcutArea += r.w * r.h;
+      } else scrap.push(toRect(r));
+    }
+    for (const c of lay.cuts) allCuts.push({ kind: c.kind, setting: c.setting });
+    return {
+      stockId: st.id,
+      length: st.length,
+      width: st.width,
+      trimmed: st.trimmed,
+      placements: b.placed.map((p, i) => ({
+        partId: job.parts[prep.typePart[p.t]].id,
+        x: umToMm(rects[i].x),
+        y: umToMm(rects[i].y),
+        length: umToMm(rects[i].w),
+        width: umToMm(rects[i].h),
+        rotated: p.rot,
+      })),
+      cuts: lay.cuts.map((c) => ({
+        stage: c.stage,
+        kind: c.kind,
+        axis: c.axis,
+        at: umToMm(c.at),
+        from: umToMm(c.from),
+        to: umToMm(c.to),
+        setting: umToMm(c.setting),
+        trim: c.trim,
+      })),
+      offcuts,
+      scrap,
+    };
+  });
+  const unplaced = prep.unplaced.slice();
+  sol.left.forEach((n, t) => {
+    if (n > 0) unplaced.push({ partId: job.parts[prep.typePart[t]].id, quantity: n, reason: "not enough stock: no panel left that takes it" });
+  });
+  const setups = deriveSetups(allCuts, job.limits);
+  const placedCounts = new Int32Array(sol.left.length);
+  for (const b of sol.bins) for (let t = 0; t < placedCounts.length; t++) placedCounts[t] += b.counts[t];
+  const scrapArea = stockArea - partsArea - kerfArea - offcutArea;
+  return {
+    sheets,
+    unplaced,
+    setups,
+    metrics: {
+      sheets: sheets.length,
+      stockArea: um2ToMm2(stockArea),
+      partsArea: um2ToMm2(partsArea),
+      yield: stockArea > 0 ? partsArea / stockArea : 0,
+      offcutArea: um2ToMm2(offcutArea),
+      scrapArea: um2ToMm2(scrapArea),
+      kerfLoss: um2ToMm2(kerfArea),
+      setups: setups.length,
+      lowerBound: lowerBound(prep, placedCounts),
+      elapsedMs: elapsed,
+    },
+  };
+}
+
+function offcutAreaUsed(sol: Solution, slots: StockSlot[]): number {
+  let a = 0;
+  for (const b of sol.bins) if (slots[b.s].offcut) a += slots[b.s].area;
+  return a;
+}
+
+export function pack(job: Job, options: PackOptions = {}): Plan {
+  const now = options.now ?? (() => performance.now());
+  const t0 = now();
+  const budget = Math.max(1, job.timeLimitMs);
+  const deadline = t0 + budget;
+  const prep = prepare(job);
+  const rng = mulberry32(job.seed);
+  const variants = job.stages === 0 ? guillotineVariants() : stagedVariants(job.stages);
+  const dims = prep.lowerBoundItems.map((_, t) => {
+    const p = job.parts[prep.typePart[t]];
+    return { l: mmToUm(p.length) + prep.kerf, w: mmToUm(p.width) + prep.kerf };
+  });
+  const weight = new Float64Array(dims.map((d) => d.l * d.w));
+  const lb = lowerBound(prep, prep.demand);
+  const input: SearchInput = {
+    stocks: prep.slots,
+    demand: prep.demand,
+    weight,
+    dims,
+    variants,
+    rng,
+    now,
+    deadline,
+    lowerBound: lb,
+    offcutsFirst: true,
+  };
+  const allOrders = Array.from({ length: ORDER_COUNT }, (_, i) => i);
+  const cands: Solution[] = [];
+  const hasOffcuts = prep.slots.some((s) => s.offcut);
+  cands.push(constructive(input, variants, allOrders, t0 + budget * 0.25));
+  if (hasOffcuts) cands.push(constructive({ ...input, offcutsFirst: false }, variants, allOrders, t0 + budget * 0.35));
+  // single-heuristic passes give plans of different character (set-ups, strip structure)
+  const singles = job.objective === "setups" ? variants.length : Math.min(8, variants.length);
+  for (let i = 0; i < singles && now() < t0 + budget * 0.45; i++) {
+    const v = job.objective === "setups" ? variants[i] : variants[Math.floor((i * variants.length) / singles)];
+    for (const o of job.objective === "setups" ? allOrders : [i % ORDER_COUNT]) {
+      if (now() >= t0 + budget * 0.45) break;
+      cands.push(constructive(input, [v], [o], Infinity));
+    }
+  }
+  let best = cands[0];
+  for (const c of cands) if (lexLess(basicKey(c, prep.slots), basicKey(best, prep.slots))) best = c;
+  // improvement: leave a little time to lay out and check the plan
+  const improveEnd = t0 + budget * 0.92;
+  const improved = ruinAndRecreate({ ...input, deadline: improveEnd }, best, variants);
+  cands.push(improved);
+  const finals = cands.map((c) => (prep.slots.length > 1 ? downsize(input, c, variants) : c));
+
+  const built: Built[] = [];
+  for (const sol of finals) {
+    try {
+      built.push({ sol, plan: buildPlan(prep, sol, 0) });
+    } catch {
+      // a layout the cut derivation rejects is never offered
+    }
+  }
+  const minLeft = Math.min(...built.map((b) => basicKey(b.sol, prep.slots)[0]));
+  const pool = built.filter((b) => basicKey(b.sol, prep.slots)[0] === minLeft);
+  const minFull = Math.min(...pool.map((b) => fullSheets(b.sol, prep.slots)));
+  const cost = (s: Solution) => s.bins.reduce((a, b) => a + prep.slots[b.s].cost, 0);
+  const fullCost = (s: Solution) => s.bins.reduce((a, b) => a + (prep.slots[b.s].offcut ? 0 : prep.slots[b.s].cost), 0);
+  const key = (b: Built): number[] =>
+    job.objective === "setups"
+      ? [fullSheets(b.sol, prep.slots) <= minFull + 1 ? 0 : 1, b.plan.metrics.setups, fullSheets(b.sol, prep.slots), fullCost(b.sol), cost(b.sol)]
+      : [fullSheets(b.sol, prep.slots), fullCost(b.sol), -offcutAreaUsed(b.sol, prep.slots), b.plan.metrics.setups, cost(b.sol)];
+  pool.sort((a, b) => {
+    const ka = key(a);
+    const kb = key(b);
+    return lexLess(ka, kb) ? -1 : lexLess(kb, ka) ? 1 : 0;
+  });
+  for (const b of pool) {
+    b.plan.metrics.elapsedMs = Math.round((now() - t0) * 10) / 10;
+    if (validatePlan(job, b.plan).ok) return b.plan;
+  }
+  throw new Error("packing engine produced no plan that passes validation");
+}

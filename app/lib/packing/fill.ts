@@ -1,0 +1,338 @@
+// Fillers: lay items from a pool onto one panel. All sizes are "inflated" integers
+// (real size + kerf, panel usable size + kerf), which turns every kerf-aware guillotine
+// layout into a zero-kerf one: n parts of width w fit in W iff n·(w+k) <= W+k.
+
+export interface Orient {
+  /** extent along x (panel length) */
+  w: number;
+  /** extent along y (panel width) */
+  h: number;
+  rot: boolean;
+}
+
+export interface BinContext {
+  /** usable length and width of the panel, inflated */
+  W: number;
+  H: number;
+  /** allowed orientations per item type that fit this panel (and its strip limit), inflated */
+  orients: Orient[][];
+  /** widest strip (inflated) in staged patterns; Infinity when unlimited */
+  stripMax: number;
+}
+
+export interface Placed {
+  t: number;
+  x: number;
+  y: number;
+  w: number;
+  h: number;
+  rot: boolean;
+}
+
+export interface GuillotineParams {
+  kind: "guillotine";
+  /** 0 best area fit, 1 best short side, 2 best long side, 3 bottom-left */
+  rectChoice: number;
+  /** 0 shorter axis, 1 longer axis, 2 shorter leftover, 3 longer leftover, 4 min area, 5 max area */
+  split: number;
+  /** item-driven (pack the order) or rectangle-driven (best item for each free rectangle) */
+  driver: "item" | "rect";
+}
+
+export interface StagedParams {
+  kind: "staged";
+  /** 2: one section the panel's length; 3: breakdown into sections first */
+  stages: 2 | 3;
+  /** strip opener orientation: 0 widest fitting, 1 narrowest, 2 try both and keep the denser strip */
+  opener: number;
+  /** 3 stages: section length from its opener's length (true) or the rest of the panel (false) */
+  sectionByOpener: boolean;
+  /** only parts exactly as wide as the strip (no rip to width): fewer set-ups */
+  homogeneous: boolean;
+}
+
+export type FillParams = GuillotineParams | StagedParams;
+
+interface Free {
+  x: number;
+  y: number;
+  w: number;
+  h: number;
+}
+
+/** Fills one panel from `counts` (decremented in place) and appends to `out`. Returns the packed weight. */
+export function fillBin(
+  ctx: BinContext,
+  counts: Int32Array,
+  order: number[],
+  params: FillParams,
+  weight: Float64Array,
+  out: Placed[],
+): number {
+  if (params.kind === "guillotine") {
+    return params.driver === "item"
+      ? guillotineItemFill(ctx, counts, order, params, weight, out)
+      : guillotineRectFill(ctx, counts, order, params, weight, out);
+  }
+  return stagedFill(ctx, counts, order, params, weight, out);
+}
+
+function splitHorizontal(split: number, fw: number, fh: number, w: number, h: number): boolean {
+  const wl = fw - w;
+  const hl = fh - h;
+  switch (split) {
+    case 0:
+      return fw <= fh;
+    case 1:
+      return fw > fh;
+    case 2:
+      return wl <= hl;
+    case 3:
+      return wl > hl;
+    case 4:
+      return w * hl > wl * h;
+    default:
+      return w * hl <= wl * h;
+  }
+}
+
+// Place at the free rectangle's lower-left corner and cut the rest into two free rectangles.
+function placeAndSplit(free: Free[], i: number, o: Orient, split: number): Free {
+  const r = free[i];
+  const horiz = splitHorizontal(split, r.w, r.h, o.w, o.h);
+  const wl = r.w - o.w;
+  const hl = r.h - o.h;
+  free[i] = free[free.length - 1];
+  free.pop();
+  if (horiz) {
+    // cut y = r.y + o.h across the whole free rect first
+    if (hl > 0) free.push({ x: r.x, y: r.y + o.h, w: r.w, h: hl });
+    if (wl > 0) free.push({ x: r.x + o.w, y: r.y, w: wl, h: o.h });
+  } else {
+    if (wl > 0) free.push({ x: r.x + o.w, y: r.y, w: wl, h: r.h });
+    if (hl > 0) free.push({ x: r.x, y: r.y + o.h, w: o.w, h: hl });
+  }
+  return r;
+}
+
+function rectScore(choice: number, r: Free, o: Orient): number {
+  const dw = r.w - o.w;
+  const dh = r.h - o.h;
+  switch (choice) {
+    case 0:
+      return r.w * r.h - o.w * o.h + Math.min(dw, dh) * 1e-9;
+    case 1:
+      return Math.min(dw, dh) + Math.max(dw, dh) * 1e-9;
+    case 2:
+      return Math.max(dw, dh) + Math.min(dw, dh) * 1e-9;
+    default:
+      return r.y * 4e12 + r.x + Math.min(dw, dh) * 1e-9;
+  }
+}
+
+function guillotineItemFill(
+  ctx: BinContext,
+  counts: Int32Array,
+  order: number[],
+  p: GuillotineParams,
+  weight: Float64Array,
+  out: Placed[],
+): number {
+  const free: Free[] = [{ x: 0, y: 0, w: ctx.W, h: ctx.H }];
+  let packed = 0;
+  for (const t of order) {
+    const os = ctx.orients[t];
+    if (os.length === 0) continue;
+    while (counts[t] > 0 && free.length > 0) {
+      let best = -1;
+      let bestO: Orient | null = null;
+      let bestS = Infinity;
+      for (let i = 0; i < free.length; i++) {
+        const r = free[i];
+        for (const o of os) {
+          if (o.w <= r.w && o.h <= r.h) {
+            const s = rectScore(p.rectChoice, r, o);
+            if (s < bestS) {
+              bestS = s;
+              best = i;
+              bestO = o;
+            }
+          }
+        }
+      }
+      if (best < 0 || !bestO) break;
+      const r = placeAndSplit(free, best, bestO, p.split);
+      out.push({ t, x: r.x, y: r.y, w: bestO.w, h: bestO.h, rot: bestO.rot });
+      counts[t]--;
+      packed += weight[t];
+    }
+  }
+  return packed;
+}
+
+function guillotineRectFill(
+  ctx: BinContext,
+  counts: Int32Array,
+  order: number[],
+  p: GuillotineParams,
+  weight: Float64Array,
+  out: Placed[],
+): number {
+  const free: Free[] = [{ x: 0, y: 0, w: ctx.W, h: ctx.H }];
+  let packed = 0;
+  // candidate types in priority order; ties in fit go to the earlier one
+  const live = order.filter((t) => counts[t] > 0 && ctx.orients[t].length > 0);
+  while (free.length > 0 && live.length > 0) {
+    // next free rectangle: bottom-left (choice 3) or the smallest first
+    let ri = 0;
+    for (let i = 1; i < free.length; i++) {
+      const a = free[i];
+      const b = free[ri];
+      if (p.rectChoice === 3 ? a.y < b.y || (a.y === b.y && a.x < b.x) : a.w * a.h < b.w * b.h) ri = i;
+    }
+    const r = free[ri];
+    let bestT = -1;
+    let bestO: Orient | null = null;
+    let bestS = -Infinity;
+    for (let li = 0; li < live.length; li++) {
+      const t = live[li];
+      for (const o of ctx.orients[t]) {
+        if (o.w <= r.w && o.h <= r.h) {
+          // prefer filling the rectangle: biggest area, then a snug side
+          const snug = o.w === r.w || o.h === r.h ? 1 : 0;
+          const s = p.rectChoice === 1 ? o.w * o.h + snug * r.w * r.h : o.w * o.h * (1 + 0.05 * snug);
+          if (s > bestS) {
+            bestS = s;
+            bestT = t;
+            bestO = o;
+          }
+        }
+      }
+    }
+    if (bestT < 0 || !bestO) {
+      free[ri] = free[free.length - 1];
+      free.pop();
+      continue;
+    }
+    placeAndSplit(free, ri, bestO, p.split);
+    out.push({ t: bestT, x: r.x, y: r.y, w: bestO.w, h: bestO.h, rot: bestO.rot });
+    counts[bestT]--;
+    packed += weight[bestT];
+    if (counts[bestT] === 0) live.splice(live.indexOf(bestT), 1);
+  }
+  return packed;
+}
+
+// --- staged (2 or 3 stage) patterns: sections along x, strips along y, parts along x ---
+
+function fillStrip(
+  ctx: BinContext,
+  counts: Int32Array,
+  order: number[],
+  x0: number,
+  y0: number,
+  len: number,
+  s: number,
+  homogeneous: boolean,
+  weight: Float64Array,
+  out: Placed[] | null,
+): number {
+  let x = x0;
+  const end = x0 + len;
+  let area = 0;
+  for (const t of order) {
+    while (counts[t] > 0) {
+      let bo: Orient | null = null;
+      for (const o of ctx.orients[t]) {
+        if (o.h > s || o.w > end - x) continue;
+        if (homogeneous && o.h !== s) continue;
+        if (!bo || o.h > bo.h || (o.h === bo.h && o.w < bo.w)) bo = o;
+      }
+      if (!bo) break;
+      if (out) out.push({ t, x, y: y0, w: bo.w, h: bo.h, rot: bo.rot });
+      x += bo.w;
+      counts[t]--;
+      area += out ? weight[t] : bo.w * bo.h;
+    }
+  }
+  return area;
+}
+
+function stagedFill(
+  ctx: BinContext,
+  counts: Int32Array,
+  order: number[],
+  p: StagedParams,
+  weight: Float64Array,
+  out: Placed[],
+): number {
+  let packed = 0;
+  let x0 = 0;
+  while (x0 < ctx.W) {
+    // section opener: first item of the order that fits the rest of the panel
+    const lenLeft = ctx.W - x0;
+    let secLen = lenLeft;
+    if (p.stages === 3 && p.sectionByOpener) {
+      let found = -1;
+      for (const t of order) {
+        if (counts[t] <= 0) continue;
+        let bo: Orient | null = null;
+        for (const o of ctx.orients[t]) {
+          if (o.w > lenLeft || o.h > ctx.H || o.h > ctx.stripMax) continue;
+          // the longest fitting orientation makes the section
+          if (!bo || o.w > bo.w) bo = o;
+        }
+        if (bo) {
+          found = bo.w;
+          break;
+        }
+      }
+      if (found < 0) break;
+      secLen = found;
+    }
+    let y = 0;
+    let any = false;
+    while (y < ctx.H) {
+      const wLeft = Math.min(ctx.H - y, ctx.stripMax);
+      // strip opener
+      let opener = -1;
+      let cands: Orient[] = [];
+      for (const t of order) {
+        if (counts[t] <= 0) continue;
+        cands = ctx.orients[t].filter((o) => o.w <= secLen && o.h <= wLeft);
+        if (cands.length) {
+          opener = t;
+          break;
+        }
+      }
+      if (opener < 0) break;
+      let chosen: Orient = cands[0];
+      if (cands.length > 1) {
+        if (p.opener === 0) chosen = cands.reduce((a, b) => (b.h > a.h ? b : a));
+        else if (p.opener === 1) chosen = cands.reduce((a, b) => (b.h < a.h ? b : a));
+        else {
+          let bestD = -1;
+          for (const o of cands) {
+            const c = counts.slice();
+            c[opener]--;
+            const a = o.w * o.h + fillStrip(ctx, c, order, x0 + o.w, y, secLen - o.w, o.h, p.homogeneous, weight, null);
+            const d = a / (o.h * secLen);
+            if (d > bestD) {
+              bestD = d;
+              chosen = o;
+            }
+          }
+        }
+      }
+      out.push({ t: opener, x: x0, y, w: chosen.w, h: chosen.h, rot: chosen.rot });
+      counts[opener]--;
+      packed += weight[opener];
+      packed += fillStrip(ctx, counts, order, x0 + chosen.w, y, secLen - chosen.w, chosen.h, p.homogeneous, weight, out);
+      y += chosen.h;
+      any = true;
+    }
+    if (!any || p.stages === 2 || !p.sectionByOpener) break;
+    x0 += secLen;
+  }
+  return packed;
+}

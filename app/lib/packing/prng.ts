@@ -1,0 +1,17 @@
+// Small seeded PRNG (mulberry32): plans must be reproducible for a given seed.
+export type Rng = () => number;
+
+export function mulberry32(seed: number): Rng {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+export function randInt(rng: Rng, n: number): number {
+  return Math.floor(rng() * n);
+}
