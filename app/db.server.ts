@@ -1,0 +1,48 @@
+import { drizzle } from "drizzle-orm/postgres-js";
+import postgres from "postgres";
+import * as schema from "../db/schema";
+
+export type Database = ReturnType<typeof createDatabase>["db"];
+
+export function createDatabase(url: string, options: { max?: number } = {}) {
+  const client = postgres(url, {
+    max: options.max ?? 10,
+    // Fail fast when the database is away, so requests can answer 503 instead of hanging.
+    connect_timeout: 3,
+    idle_timeout: 30,
+    onnotice: () => {},
+  });
+  return { client, db: drizzle(client, { schema }) };
+}
+
+// One pool per process, kept across dev-server reloads.
+const globalForDb = globalThis as unknown as { stopwiseDb?: ReturnType<typeof createDatabase> };
+
+function connection() {
+  if (!globalForDb.stopwiseDb) {
+    const url = process.env.DATABASE_URL;
+    if (!url) throw new Error("DATABASE_URL is not set; bin/start and bin/test set it.");
+    globalForDb.stopwiseDb = createDatabase(url);
+  }
+  return globalForDb.stopwiseDb;
+}
+
+export function getDb(): Database {
+  return connection().db;
+}
+
+/** Answers whether the database takes a query within `timeoutMs`, and why not when it does not. */
+export async function checkDatabase(timeoutMs = 2000): Promise<{ ok: true } | { ok: false; reason: string }> {
+  let timer: NodeJS.Timeout | undefined;
+  const timeout = new Promise<never>((_, reject) => {
+    timer = setTimeout(() => reject(new Error(`no answer within ${timeoutMs} ms`)), timeoutMs);
+  });
+  try {
+    await Promise.race([connection().client`select 1`, timeout]);
+    return { ok: true };
+  } catch (error) {
+    return { ok: false, reason: error instanceof Error ? error.message : String(error) };
+  } finally {
+    clearTimeout(timer);
+  }
+}

@@ -1,0 +1,55 @@
+import { Link } from "react-router";
+import { AREAS } from "~/components/areas";
+
+const FLOW = [
+  { step: "Take the order", detail: "names, event date, due date, personalisation", path: "/orders" },
+  { step: "Batch what is due", detail: "per material and thickness", path: "/batches" },
+  { step: "Lay out the panels", detail: "kerf, trim, grain and offcuts allowed for", path: "/batches" },
+  { step: "Cut at the saw", detail: "one fence and one stop setting per identical part", path: "/saw" },
+  { step: "Count the cost", detail: "material, offcuts and scrap per batch", path: "/ledger" },
+];
+
+export default function Home() {
+  return (
+    <div className="space-y-10">
+      <title>Stopwise</title>
+      <header className="max-w-3xl space-y-3">
+        <h1 className="text-display font-semibold">From the order to the offcut</h1>
+        <p className="text-lg text-muted">
+          Stopwise carries a personalised order through the shop: it batches what is due by material, lays the parts
+          onto sheets and racked offcuts with the saw's kerf allowed for, gives the saw a set-up for every identical
+          part, and shows what each batch cost.
+        </p>
+      </header>
+
+      <ol className="grid gap-3 sm:grid-cols-2 lg:grid-cols-5">
+        {FLOW.map((item, i) => (
+          <li key={item.step}>
+            <Link to={item.path} className="block h-full rounded-lg border border-line bg-card p-4 hover:border-edge">
+              <span className="text-sm font-semibold text-edge">Step {i + 1}</span>
+              <span className="mt-1 block font-semibold">{item.step}</span>
+              <span className="mt-1 block text-sm text-muted">{item.detail}</span>
+            </Link>
+          </li>
+        ))}
+      </ol>
+
+      <section className="space-y-3">
+        <h2 className="text-xl font-semibold">Areas</h2>
+        <ul className="grid gap-3 sm:grid-cols-2 lg:grid-cols-3">
+          {AREAS.map((area) => (
+            <li key={area.path}>
+              <Link to={area.path} className="block h-full rounded-lg border border-line bg-card p-4 hover:border-edge">
+                <span className="flex items-baseline justify-between gap-2">
+                  <span className="font-semibold">{area.label}</span>
+                  <span className="text-xs uppercase tracking-wider text-muted">{area.forWhom}</span>
+                </span>
+                <span className="mt-1 block text-sm text-muted">{area.summary}</span>
+              </Link>
+            </li>
+          ))}
+        </ul>
+      </section>
+    </div>
+  );
+}

@@ -1,0 +1,35 @@
+// The production server: static assets, the React Router handler, and a clean stop on
+// SIGTERM / SIGINT (react-router-serve waits forever for the database pool to go idle).
+import { createRequestHandler } from "@react-router/express";
+import compression from "compression";
+import express from "express";
+import { fileURLToPath } from "node:url";
+
+const root = fileURLToPath(new URL("..", import.meta.url));
+const port = Number(process.env.PORT ?? 3000);
+const host = process.env.HOST ?? "127.0.0.1";
+
+const build = await import(/* @vite-ignore */ `${root}build/server/index.js`);
+
+const app = express();
+app.disable("x-powered-by");
+app.use(compression());
+app.use("/assets", express.static(`${root}build/client/assets`, { immutable: true, maxAge: "1y" }));
+app.use(express.static(`${root}build/client`, { maxAge: "1h", index: false }));
+app.all("/{*splat}", createRequestHandler({ build, mode: process.env.NODE_ENV }));
+
+const server = app.listen(port, host, () => console.log(`Stopwise listening on http://${host}:${port}`));
+server.on("error", (error: NodeJS.ErrnoException) => {
+  console.error(error.code === "EADDRINUSE" ? `Port ${port} on ${host} is already taken.` : error.message);
+  process.exit(1);
+});
+
+function stop(signal: string) {
+  console.log(`${signal}: finishing open requests, then stopping.`);
+  server.close(() => process.exit(0));
+  server.closeIdleConnections();
+  // Requests still running after 5 s are cut off rather than holding the stop.
+  setTimeout(() => process.exit(0), 5000).unref();
+}
+process.once("SIGTERM", () => stop("SIGTERM"));
+process.once("SIGINT", () => stop("SIGINT"));

@@ -1,0 +1,221 @@
+// The Stopwise schema. Lengths are integer micrometres (`*_um`), money is integer minor units
+// (`*_minor`), so no floating-point value is ever stored or summed.
+import { sql } from "drizzle-orm";
+import {
+  boolean,
+  date,
+  index,
+  integer,
+  jsonb,
+  pgEnum,
+  pgTable,
+  text,
+  timestamp,
+  uniqueIndex,
+  uuid,
+} from "drizzle-orm/pg-core";
+
+const createdAt = () => timestamp("created_at", { withTimezone: true, mode: "date" }).notNull().defaultNow();
+
+export const roleEnum = pgEnum("role", ["owner", "planner", "sawyer", "bookkeeper"]);
+export const unitEnum = pgEnum("display_unit", ["mm", "in"]);
+export const materialKindEnum = pgEnum("material_kind", ["plywood", "mdf", "acrylic", "hardwood", "other"]);
+export const grainEnum = pgEnum("grain", ["length", "none"]);
+export const processEnum = pgEnum("part_process", ["saw", "laser"]);
+export const orderStatusEnum = pgEnum("order_status", [
+  "draft",
+  "confirmed",
+  "in_production",
+  "ready",
+  "delivered",
+  "cancelled",
+]);
+export const offcutStatusEnum = pgEnum("offcut_status", ["racked", "reserved", "used", "discarded"]);
+
+export const shops = pgTable("shops", {
+  id: uuid("id").primaryKey().defaultRandom(),
+  name: text("name").notNull(),
+  displayUnit: unitEnum("display_unit").notNull().default("mm"),
+  currency: text("currency").notNull().default("EUR"),
+  kerfUm: integer("kerf_um").notNull().default(3200),
+  edgeTrimUm: integer("edge_trim_um").notNull().default(10000),
+  minOffcutShortUm: integer("min_offcut_short_um").notNull().default(100000),
+  minOffcutAreaMm2: integer("min_offcut_area_mm2").notNull().default(40000),
+  laserBedLengthUm: integer("laser_bed_length_um").notNull().default(600000),
+  laserBedWidthUm: integer("laser_bed_width_um").notNull().default(400000),
+  laserSpacingUm: integer("laser_spacing_um").notNull().default(3000),
+  ripMaxUm: integer("rip_max_um").notNull().default(760000),
+  sledWidthMaxUm: integer("sled_width_max_um").notNull().default(610000),
+  stopMinUm: integer("stop_min_um").notNull().default(20000),
+  stopMaxUm: integer("stop_max_um").notNull().default(1200000),
+  createdAt: createdAt(),
+});
+
+// lucia needs a text primary key on users and sessions.
+export const users = pgTable(
+  "users",
+  {
+    id: text("id").primaryKey(),
+    shopId: uuid("shop_id")
+      .notNull()
+      .references(() => shops.id, { onDelete: "cascade" }),
+    email: text("email").notNull(),
+    name: text("name").notNull(),
+    role: roleEnum("role").notNull(),
+    passwordHash: text("password_hash").notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("users_email_key").on(sql`lower(${t.email})`), index("users_shop_idx").on(t.shopId)],
+);
+
+export const sessions = pgTable("sessions", {
+  id: text("id").primaryKey(),
+  userId: text("user_id")
+    .notNull()
+    .references(() => users.id, { onDelete: "cascade" }),
+  expiresAt: timestamp("expires_at", { withTimezone: true, mode: "date" }).notNull(),
+});
+
+export const materials = pgTable(
+  "materials",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    shopId: uuid("shop_id")
+      .notNull()
+      .references(() => shops.id, { onDelete: "cascade" }),
+    name: text("name").notNull(),
+    kind: materialKindEnum("kind").notNull(),
+    thicknessUm: integer("thickness_um").notNull(),
+    note: text("note").notNull().default(""),
+    createdAt: createdAt(),
+  },
+  (t) => [index("materials_shop_idx").on(t.shopId)],
+);
+
+export const stockPanels = pgTable(
+  "stock_panels",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    shopId: uuid("shop_id")
+      .notNull()
+      .references(() => shops.id, { onDelete: "cascade" }),
+    materialId: uuid("material_id")
+      .notNull()
+      .references(() => materials.id, { onDelete: "cascade" }),
+    lengthUm: integer("length_um").notNull(),
+    widthUm: integer("width_um").notNull(),
+    costMinor: integer("cost_minor").notNull(),
+    onHand: integer("on_hand").notNull().default(0),
+    grain: grainEnum("grain").notNull().default("length"),
+  },
+  (t) => [index("stock_panels_material_idx").on(t.materialId)],
+);
+
+export const offcuts = pgTable(
+  "offcuts",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    shopId: uuid("shop_id")
+      .notNull()
+      .references(() => shops.id, { onDelete: "cascade" }),
+    materialId: uuid("material_id")
+      .notNull()
+      .references(() => materials.id, { onDelete: "cascade" }),
+    lengthUm: integer("length_um").notNull(),
+    widthUm: integer("width_um").notNull(),
+    grain: grainEnum("grain").notNull().default("length"),
+    location: text("location").notNull().default(""),
+    status: offcutStatusEnum("status").notNull().default("racked"),
+    createdAt: createdAt(),
+  },
+  (t) => [index("offcuts_shop_material_idx").on(t.shopId, t.materialId)],
+);
+
+export const customers = pgTable(
+  "customers",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    shopId: uuid("shop_id")
+      .notNull()
+      .references(() => shops.id, { onDelete: "cascade" }),
+    name: text("name").notNull(),
+    email: text("email").notNull().default(""),
+    phone: text("phone").notNull().default(""),
+    notes: text("notes").notNull().default(""),
+    createdAt: createdAt(),
+  },
+  (t) => [index("customers_shop_idx").on(t.shopId)],
+);
+
+export const products = pgTable(
+  "products",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    shopId: uuid("shop_id")
+      .notNull()
+      .references(() => shops.id, { onDelete: "cascade" }),
+    name: text("name").notNull(),
+    priceMinor: integer("price_minor").notNull(),
+    leadTimeDays: integer("lead_time_days"),
+    createdAt: createdAt(),
+  },
+  (t) => [index("products_shop_idx").on(t.shopId)],
+);
+
+export const productParts = pgTable(
+  "product_parts",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    productId: uuid("product_id")
+      .notNull()
+      .references(() => products.id, { onDelete: "cascade" }),
+    materialId: uuid("material_id")
+      .notNull()
+      .references(() => materials.id),
+    name: text("name").notNull(),
+    lengthUm: integer("length_um").notNull(),
+    widthUm: integer("width_um").notNull(),
+    quantity: integer("quantity").notNull().default(1),
+    grainLocked: boolean("grain_locked").notNull().default(false),
+    process: processEnum("process").notNull().default("saw"),
+  },
+  (t) => [index("product_parts_product_idx").on(t.productId)],
+);
+
+export const orders = pgTable(
+  "orders",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    shopId: uuid("shop_id")
+      .notNull()
+      .references(() => shops.id, { onDelete: "cascade" }),
+    number: integer("number").notNull(),
+    customerId: uuid("customer_id")
+      .notNull()
+      .references(() => customers.id),
+    eventDate: date("event_date", { mode: "string" }).notNull(),
+    dueDate: date("due_date", { mode: "string" }).notNull(),
+    status: orderStatusEnum("status").notNull().default("draft"),
+    notes: text("notes").notNull().default(""),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("orders_shop_number_key").on(t.shopId, t.number), index("orders_due_idx").on(t.shopId, t.dueDate)],
+);
+
+export const orderLines = pgTable(
+  "order_lines",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    orderId: uuid("order_id")
+      .notNull()
+      .references(() => orders.id, { onDelete: "cascade" }),
+    productId: uuid("product_id")
+      .notNull()
+      .references(() => products.id),
+    quantity: integer("quantity").notNull(),
+    unitPriceMinor: integer("unit_price_minor").notNull(),
+    personalisation: jsonb("personalisation").$type<string[]>().notNull().default([]),
+    notes: text("notes").notNull().default(""),
+  },
+  (t) => [index("order_lines_order_idx").on(t.orderId)],
+);

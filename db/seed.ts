@@ -1,0 +1,153 @@
+// The demo scenario of DESIGN.md: "Tallowmere Sign & Keepsake", a three-person shop.
+// Every name and figure here is invented for the demo.
+import { count } from "drizzle-orm";
+import { generateIdFromEntropySize } from "lucia";
+import type { Database } from "../app/db.server";
+import { hashPassword } from "../app/password.server";
+import * as t from "./schema";
+
+export const DEMO_PASSWORD = "tallowmere-demo-2026";
+export const DEMO_ACCOUNTS = [
+  { email: "owner@tallowmere.example", name: "Edda Tallowmere", role: "owner" },
+  { email: "planner@tallowmere.example", name: "Rafe Onwuka", role: "planner" },
+  { email: "sawyer@tallowmere.example", name: "Ines Marlow", role: "sawyer" },
+  { email: "books@tallowmere.example", name: "Tobiah Vance", role: "bookkeeper" },
+] as const;
+
+const mm = (value: number) => Math.round(value * 1000);
+
+const GUEST_FIRST = ["Zoë", "Anh", "Mateo", "Saoirse", "Kofi", "Lena", "Tomás", "Priya", "Björn", "Amara", "Jules", "Nguyễn Thảo"];
+const GUEST_LAST = ["Ardent", "Vasquez", "Holloway", "Okafor", "Lindqvist", "Duarte", "Marchetti", "Ferreira", "Quill", "Abernathy"];
+
+/** 120 invented guest names for the place cards, deterministic. */
+export function demoGuestNames(total = 120): string[] {
+  const names: string[] = [];
+  for (let i = 0; names.length < total; i++) {
+    names.push(`${GUEST_FIRST[i % GUEST_FIRST.length]} ${GUEST_LAST[Math.floor(i / GUEST_FIRST.length) % GUEST_LAST.length]}`);
+  }
+  return names;
+}
+
+export async function isEmpty(db: Database): Promise<boolean> {
+  const [row] = await db.select({ n: count() }).from(t.shops);
+  return row.n === 0;
+}
+
+export async function seedDemo(db: Database, today = new Date()): Promise<void> {
+  const passwordHash = await hashPassword(DEMO_PASSWORD);
+  const day = (offset: number) => new Date(today.getTime() + offset * 86_400_000).toISOString().slice(0, 10);
+
+  await db.transaction(async (tx) => {
+    const [shop] = await tx
+      .insert(t.shops)
+      .values({ name: "Tallowmere Sign & Keepsake", currency: "GBP", displayUnit: "mm" })
+      .returning();
+
+    await tx.insert(t.users).values(
+      DEMO_ACCOUNTS.map((account) => ({ id: generateIdFromEntropySize(10), shopId: shop.id, passwordHash, ...account })),
+    );
+
+    const [birch3, birch6, mdf6] = await tx
+      .insert(t.materials)
+      .values([
+        { shopId: shop.id, name: "Birch plywood 3 mm", kind: "plywood", thicknessUm: mm(3), note: "B/BB face, laser grade" },
+        { shopId: shop.id, name: "Birch plywood 6 mm", kind: "plywood", thicknessUm: mm(6), note: "B/BB face" },
+        { shopId: shop.id, name: "MDF 6 mm", kind: "mdf", thicknessUm: mm(6), note: "moisture resistant" },
+      ])
+      .returning();
+
+    await tx.insert(t.stockPanels).values([
+      { shopId: shop.id, materialId: birch3.id, lengthUm: mm(2440), widthUm: mm(1220), costMinor: 3450, onHand: 6, grain: "length" },
+      { shopId: shop.id, materialId: birch3.id, lengthUm: mm(1220), widthUm: mm(1220), costMinor: 1890, onHand: 4, grain: "length" },
+      { shopId: shop.id, materialId: birch6.id, lengthUm: mm(2440), widthUm: mm(1220), costMinor: 5290, onHand: 8, grain: "length" },
+      { shopId: shop.id, materialId: birch6.id, lengthUm: mm(1220), widthUm: mm(1220), costMinor: 2880, onHand: 3, grain: "length" },
+      { shopId: shop.id, materialId: mdf6.id, lengthUm: mm(2440), widthUm: mm(1220), costMinor: 2190, onHand: 5, grain: "none" },
+      { shopId: shop.id, materialId: mdf6.id, lengthUm: mm(1220), widthUm: mm(1220), costMinor: 1240, onHand: 2, grain: "none" },
+    ]);
+
+    await tx.insert(t.offcuts).values([
+      { shopId: shop.id, materialId: birch6.id, lengthUm: mm(812), widthUm: mm(430), location: "Rack A, slot 2" },
+      { shopId: shop.id, materialId: birch6.id, lengthUm: mm(1220), widthUm: mm(286), location: "Rack A, slot 3" },
+      { shopId: shop.id, materialId: birch3.id, lengthUm: mm(640), widthUm: mm(415), location: "Rack B, slot 1" },
+      { shopId: shop.id, materialId: mdf6.id, lengthUm: mm(955), widthUm: mm(380), location: "Rack C, slot 4", grain: "none" },
+    ]);
+
+    const [ardent, penhaligon, brindle] = await tx
+      .insert(t.customers)
+      .values([
+        { shopId: shop.id, name: "Ardent–Vasquez wedding", email: "celia.ardent@example.com", phone: "+44 7700 900123", notes: "Barn venue; rustic finish" },
+        { shopId: shop.id, name: "Marisol Penhaligon", email: "marisol.p@example.com", phone: "+44 7700 900456", notes: "Nursery for baby Wren" },
+        { shopId: shop.id, name: "Brindle & Bean café", email: "hello@brindlebean.example", phone: "+44 20 7946 0018", notes: "Engraved menu boards" },
+      ])
+      .returning();
+
+    const product = async (name: string, priceMinor: number, leadTimeDays: number, parts: Omit<typeof t.productParts.$inferInsert, "productId">[]) => {
+      const [row] = await tx.insert(t.products).values({ shopId: shop.id, name, priceMinor, leadTimeDays }).returning();
+      await tx.insert(t.productParts).values(parts.map((part) => ({ ...part, productId: row.id })));
+      return row;
+    };
+    const welcomeSign = await product("Welcome sign 600 × 400", 8500, 14, [
+      { name: "Sign face", materialId: birch6.id, lengthUm: mm(600), widthUm: mm(400), quantity: 1, grainLocked: true },
+    ]);
+    const tableNumber = await product("Table number 150 × 210", 650, 10, [
+      { name: "Number card", materialId: birch6.id, lengthUm: mm(210), widthUm: mm(150), quantity: 1, grainLocked: true },
+    ]);
+    const placeCard = await product("Place card 90 × 55, laser-cut", 180, 10, [
+      { name: "Card", materialId: birch3.id, lengthUm: mm(90), widthUm: mm(55), quantity: 1, process: "laser" },
+    ]);
+    const namePlaque = await product("Nursery name plaque 400 × 150", 3200, 10, [
+      { name: "Plaque", materialId: birch6.id, lengthUm: mm(400), widthUm: mm(150), quantity: 1, grainLocked: true },
+    ]);
+    const milestoneDisc = await product("Milestone disc Ø150", 700, 10, [
+      { name: "Disc blank", materialId: birch6.id, lengthUm: mm(152), widthUm: mm(152), quantity: 1 },
+    ]);
+    const menuBoard = await product("Café menu board 500 × 350", 4200, 21, [
+      { name: "Board", materialId: mdf6.id, lengthUm: mm(500), widthUm: mm(350), quantity: 1 },
+      { name: "Hanging batten", materialId: mdf6.id, lengthUm: mm(500), widthUm: mm(40), quantity: 1 },
+    ]);
+
+    const [wedding, nursery, cafe] = await tx
+      .insert(t.orders)
+      .values([
+        { shopId: shop.id, number: 1001, customerId: ardent.id, eventDate: day(32), dueDate: day(18), status: "confirmed" },
+        { shopId: shop.id, number: 1002, customerId: penhaligon.id, eventDate: day(24), dueDate: day(14), status: "confirmed" },
+        { shopId: shop.id, number: 1003, customerId: brindle.id, eventDate: day(40), dueDate: day(19), status: "draft" },
+      ])
+      .returning();
+
+    await tx.insert(t.orderLines).values([
+      { orderId: wedding.id, productId: welcomeSign.id, quantity: 1, unitPriceMinor: welcomeSign.priceMinor, personalisation: ["Welcome to the wedding of Celia & Marco"] },
+      {
+        orderId: wedding.id,
+        productId: tableNumber.id,
+        quantity: 18,
+        unitPriceMinor: tableNumber.priceMinor,
+        personalisation: Array.from({ length: 18 }, (_, i) => `Table ${i + 1}`),
+      },
+      { orderId: wedding.id, productId: placeCard.id, quantity: 120, unitPriceMinor: placeCard.priceMinor, personalisation: demoGuestNames(120) },
+      { orderId: nursery.id, productId: namePlaque.id, quantity: 1, unitPriceMinor: namePlaque.priceMinor, personalisation: ["Wren"] },
+      {
+        orderId: nursery.id,
+        productId: milestoneDisc.id,
+        quantity: 6,
+        unitPriceMinor: milestoneDisc.priceMinor,
+        personalisation: ["Newborn", "1 month", "3 months", "6 months", "9 months", "1 year"],
+      },
+      { orderId: cafe.id, productId: menuBoard.id, quantity: 4, unitPriceMinor: menuBoard.priceMinor, personalisation: ["Breakfast", "Lunch", "Coffee", "Cakes"] },
+    ]);
+  });
+}
+
+// Run directly (bin/start): seed only an empty database, so a second start keeps the shop's data.
+if (import.meta.url === `file://${process.argv[1]}`) {
+  const { createDatabase } = await import("../app/db.server");
+  const { client, db } = createDatabase(process.env.DATABASE_URL!, { max: 1 });
+  try {
+    if (await isEmpty(db)) {
+      await seedDemo(db);
+      console.log("Loaded the demo shop (Tallowmere Sign & Keepsake).");
+    }
+  } finally {
+    await client.end();
+  }
+}

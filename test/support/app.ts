@@ -1,0 +1,11 @@
+// The built app's real request handler, for supertest: no port, no mocks (run `react-router build` first; bin/test does).
+import { createRequestListener } from "@react-router/node";
+import { createServer, type Server } from "node:http";
+import { fileURLToPath } from "node:url";
+
+const buildPath = fileURLToPath(new URL("../../build/server/index.js", import.meta.url));
+
+export async function appServer(): Promise<Server> {
+  const build = await import(/* @vite-ignore */ buildPath);
+  return createServer(createRequestListener({ build, mode: "production" }));
+}
