@@ -1,6 +1,7 @@
 // pack(job): lays the parts of a job onto its stock and returns a validated plan.
 import { areaBound, bigItemBound, dffBound, type BoundItem } from "./bounds";
-import type { BinContext, FillParams, Orient } from "./fill";
+import type { BinContext, FillParams, GuillotineParams, Orient } from "./fill";
+import { goalDrivenGuillotine } from "./goal";
 import { layoutPanel, type RectUm } from "./layout";
 import { mulberry32 } from "./prng";
 import {
@@ -264,7 +265,10 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
   for (const c of cands) if (lexLess(basicKey(c, prep.slots), basicKey(best, prep.slots))) best = c;
   // improvement: leave a little time to lay out and check the plan
   const improveEnd = t0 + budget * 0.92;
-  const improved = ruinAndRecreate({ ...input, deadline: improveEnd }, best, variants);
+  const improved =
+    job.stages === 0
+      ? goalDrivenGuillotine({ ...input, deadline: improveEnd }, best, variants as GuillotineParams[])
+      : ruinAndRecreate({ ...input, deadline: improveEnd }, best, variants);
   cands.push(improved);
   const finals = cands.map((c) => (prep.slots.length > 1 ? downsize(input, c, variants) : c));
 

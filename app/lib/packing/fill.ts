@@ -53,7 +53,7 @@ export interface StagedParams {
 
 export type FillParams = GuillotineParams | StagedParams;
 
-interface Free {
+export interface Free {
   x: number;
   y: number;
   w: number;
@@ -68,11 +68,12 @@ export function fillBin(
   params: FillParams,
   weight: Float64Array,
   out: Placed[],
+  freeOut?: Free[],
 ): number {
   if (params.kind === "guillotine") {
     return params.driver === "item"
-      ? guillotineItemFill(ctx, counts, order, params, weight, out)
-      : guillotineRectFill(ctx, counts, order, params, weight, out);
+      ? guillotineItemFill(ctx, counts, order, params, weight, out, freeOut)
+      : guillotineRectFill(ctx, counts, order, params, weight, out, freeOut);
   }
   return stagedFill(ctx, counts, order, params, weight, out);
 }
@@ -97,7 +98,7 @@ function splitHorizontal(split: number, fw: number, fh: number, w: number, h: nu
 }
 
 // Place at the free rectangle's lower-left corner and cut the rest into two free rectangles.
-function placeAndSplit(free: Free[], i: number, o: Orient, split: number): Free {
+export function placeAndSplit(free: Free[], i: number, o: Orient, split: number): Free {
   const r = free[i];
   const horiz = splitHorizontal(split, r.w, r.h, o.w, o.h);
   const wl = r.w - o.w;
@@ -130,6 +131,7 @@ function rectScore(choice: number, r: Free, o: Orient): number {
   }
 }
 
+// The order is a sequence: each entry places one copy of its type when one is left and fits.
 function guillotineItemFill(
   ctx: BinContext,
   counts: Int32Array,
@@ -137,35 +139,41 @@ function guillotineItemFill(
   p: GuillotineParams,
   weight: Float64Array,
   out: Placed[],
+  freeOut?: Free[],
 ): number {
-  const free: Free[] = [{ x: 0, y: 0, w: ctx.W, h: ctx.H }];
+  const free: Free[] = freeOut ?? [];
+  free.length = 0;
+  free.push({ x: 0, y: 0, w: ctx.W, h: ctx.H });
   let packed = 0;
+  // free space only shrinks, so a type that once found no room never will
+  const failed = new Uint8Array(counts.length);
   for (const t of order) {
+    if (counts[t] <= 0 || failed[t] || free.length === 0) continue;
     const os = ctx.orients[t];
-    if (os.length === 0) continue;
-    while (counts[t] > 0 && free.length > 0) {
-      let best = -1;
-      let bestO: Orient | null = null;
-      let bestS = Infinity;
-      for (let i = 0; i < free.length; i++) {
-        const r = free[i];
-        for (const o of os) {
-          if (o.w <= r.w && o.h <= r.h) {
-            const s = rectScore(p.rectChoice, r, o);
-            if (s < bestS) {
-              bestS = s;
-              best = i;
-              bestO = o;
-            }
+    let best = -1;
+    let bestO: Orient | null = null;
+    let bestS = Infinity;
+    for (let i = 0; i < free.length; i++) {
+      const r = free[i];
+      for (const o of os) {
+        if (o.w <= r.w && o.h <= r.h) {
+          const s = rectScore(p.rectChoice, r, o);
+          if (s < bestS) {
+            bestS = s;
+            best = i;
+            bestO = o;
           }
         }
       }
-      if (best < 0 || !bestO) break;
-      const r = placeAndSplit(free, best, bestO, p.split);
-      out.push({ t, x: r.x, y: r.y, w: bestO.w, h: bestO.h, rot: bestO.rot });
-      counts[t]--;
-      packed += weight[t];
     }
+    if (best < 0 || !bestO) {
+      failed[t] = 1;
+      continue;
+    }
+    const r = placeAndSplit(free, best, bestO, p.split);
+    out.push({ t, x: r.x, y: r.y, w: bestO.w, h: bestO.h, rot: bestO.rot });
+    counts[t]--;
+    packed += weight[t];
   }
   return packed;
 }
@@ -177,11 +185,15 @@ function guillotineRectFill(
   p: GuillotineParams,
   weight: Float64Array,
   out: Placed[],
+  freeOut?: Free[],
 ): number {
-  const free: Free[] = [{ x: 0, y: 0, w: ctx.W, h: ctx.H }];
+  const free: Free[] = freeOut ?? [];
+  free.length = 0;
+  free.push({ x: 0, y: 0, w: ctx.W, h: ctx.H });
   let packed = 0;
+  const dead: Free[] = [];
   // candidate types in priority order; ties in fit go to the earlier one
-  const live = order.filter((t) => counts[t] > 0 && ctx.orients[t].length > 0);
+  const live = [...new Set(order)].filter((t) => counts[t] > 0 && ctx.orients[t].length > 0);
   while (free.length > 0 && live.length > 0) {
     // next free rectangle: bottom-left (choice 3) or the smallest first
     let ri = 0;
@@ -210,6 +222,7 @@ function guillotineRectFill(
       }
     }
     if (bestT < 0 || !bestO) {
+      dead.push(r);
       free[ri] = free[free.length - 1];
       free.pop();
       continue;
@@ -220,6 +233,7 @@ function guillotineRectFill(
     packed += weight[bestT];
     if (counts[bestT] === 0) live.splice(live.indexOf(bestT), 1);
   }
+  for (const d of dead) free.push(d);
   return packed;
 }
 

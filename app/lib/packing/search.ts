@@ -17,9 +17,12 @@ export interface StockSlot {
 export interface Bin {
   s: number;
   counts: Int32Array;
+  /** in placement order */
   placed: Placed[];
   /** packed weight */
   load: number;
+  /** the filler that made it */
+  v: FillParams;
 }
 
 export interface Solution {
@@ -55,17 +58,23 @@ const ORDER_KEYS: ((d: { l: number; w: number }) => number)[] = [
 ];
 export const ORDER_COUNT = ORDER_KEYS.length;
 
+/** A placement sequence: live types sorted by a size key (with optional noise), each repeated by its count. */
 export function makeOrder(
-  types: number[],
+  counts: Int32Array,
   dims: { l: number; w: number }[],
   key: number,
   rng: Rng | null,
   noise = 0,
 ): number[] {
   const f = ORDER_KEYS[key % ORDER_KEYS.length];
-  const k = types.map((t) => ({ t, v: f(dims[t]) * (rng && noise > 0 ? 1 + noise * (rng() - 0.5) : 1) }));
+  const k: { t: number; v: number }[] = [];
+  for (let t = 0; t < counts.length; t++) {
+    if (counts[t] > 0) k.push({ t, v: f(dims[t]) * (rng && noise > 0 ? 1 + noise * (rng() - 0.5) : 1) });
+  }
   k.sort((a, b) => b.v - a.v || a.t - b.t);
-  return k.map((e) => e.t);
+  const seq: number[] = [];
+  for (const e of k) for (let c = 0; c < counts[e.t]; c++) seq.push(e.t);
+  return seq;
 }
 
 function liveTypes(counts: Int32Array): number[] {
@@ -112,8 +121,7 @@ export function constructive(input: SearchInput, variants: FillParams[], orders:
   const t0 = input.now();
   const wins = new Map<string, number>();
   while (true) {
-    const live = liveTypes(remaining);
-    if (live.length === 0) break;
+    if (liveTypes(remaining).length === 0) break;
     let cands = stocks
       .map((s, i) => i)
       .filter((i) => used[i] < stocks[i].quantity && fitsSomething(stocks[i].ctx, remaining));
@@ -122,7 +130,8 @@ export function constructive(input: SearchInput, variants: FillParams[], orders:
     let best: Trial | null = null;
     let bestS = -1;
     let bestKey = "";
-    const orderCache = olist.map((o) => makeOrder(live, dims, o, null));
+    let bestV: FillParams = vlist[0];
+    const orderCache = olist.map((o) => makeOrder(remaining, dims, o, null));
     for (const s of cands) {
       for (let vi = 0; vi < vlist.length; vi++) {
         for (let oi = 0; oi < olist.length; oi++) {
@@ -135,6 +144,7 @@ export function constructive(input: SearchInput, variants: FillParams[], orders:
             best = tr;
             bestS = s;
             bestKey = vi + ":" + oi;
+            bestV = vlist[vi];
           }
         }
       }
@@ -143,7 +153,7 @@ export function constructive(input: SearchInput, variants: FillParams[], orders:
     wins.set(bestKey, (wins.get(bestKey) ?? 0) + 1);
     for (let t = 0; t < remaining.length; t++) remaining[t] -= best.counts[t];
     used[bestS]++;
-    bins.push({ s: bestS, counts: best.counts, placed: best.placed, load: best.load });
+    bins.push({ s: bestS, counts: best.counts, placed: best.placed, load: best.load, v: bestV });
     // keep within the constructive budget: fall back to the variants that have been winning
     const done = 1 - sumWeight(remaining, weight) / total;
     const spent = input.now() - t0;
@@ -189,7 +199,7 @@ export function lexLess(a: number[], b: number[]): boolean {
 
 function cloneSolution(sol: Solution): Solution {
   return {
-    bins: sol.bins.map((b) => ({ s: b.s, counts: b.counts.slice(), placed: b.placed.slice(), load: b.load })),
+    bins: sol.bins.map((b) => ({ s: b.s, counts: b.counts.slice(), placed: b.placed.slice(), load: b.load, v: b.v })),
     left: sol.left.slice(),
   };
 }
@@ -231,6 +241,7 @@ export function ruinAndRecreate(input: SearchInput, start: Solution, variants: F
   if (fullSheets(cur, stocks) <= input.lowerBound && !cur.bins.some((b) => stocks[b.s].offcut)) return best;
   if (!dropOne()) return best;
   let poolW = sumWeight(pool, weight);
+  const itemVariants = variants.filter((v) => v.kind === "guillotine" && v.driver === "item");
   const histLen = 40;
   const hist = new Float64Array(histLen).fill(poolW);
   let iter = 0;
@@ -247,20 +258,34 @@ export function ruinAndRecreate(input: SearchInput, start: Solution, variants: F
       for (let t = 0; t < nT; t++) work[t] += b.counts[t];
     }
     const newBins: Bin[] = [];
+    const full = rng() < 0.25;
     for (const i of chosen) {
-      const s = cur.bins[i].s;
-      const live = liveTypes(work);
-      let bestT: Trial | null = null;
-      const tries = 2;
-      for (let a = 0; a < tries; a++) {
-        const order = makeOrder(live, dims, randInt(rng, ORDER_COUNT), rng, 0.2 + 0.6 * rng());
-        const v = variants[randInt(rng, variants.length)];
-        const tr = tryFill(stocks[s].ctx, work, order, v, weight);
-        if (!bestT || tr.load > bestT.load) bestT = tr;
+      const old = cur.bins[i];
+      const s = old.s;
+      let tr: Trial;
+      let v: FillParams;
+      if (full || itemVariants.length === 0) {
+        // rebuild from scratch with a random filler and a noisy size order
+        v = variants[randInt(rng, variants.length)];
+        tr = tryFill(stocks[s].ctx, work, makeOrder(work, dims, randInt(rng, ORDER_COUNT), rng, 0.2 + 0.6 * rng()), v, weight);
+      } else {
+        // ruin part of the panel, then recreate: kept parts in their old sequence, the pool by size
+        v = old.v.kind === "guillotine" && old.v.driver === "item" ? old.v : itemVariants[randInt(rng, itemVariants.length)];
+        const drop = rng() < 0.3 ? 0 : 0.1 + 0.5 * rng();
+        const kept: number[] = [];
+        const rest = work.slice();
+        for (const p of old.placed) {
+          if (rng() >= drop) {
+            kept.push(p.t);
+            rest[p.t]--;
+          }
+        }
+        const poolSeq = makeOrder(rest, dims, randInt(rng, 2), rng, 0.3 * rng());
+        const seq = rng() < 0.3 ? poolSeq.concat(kept) : kept.concat(poolSeq);
+        tr = tryFill(stocks[s].ctx, work, seq, v, weight);
       }
-      const tr = bestT!;
       for (let t = 0; t < nT; t++) work[t] -= tr.counts[t];
-      newBins.push({ s, counts: tr.counts, placed: tr.placed, load: tr.load });
+      newBins.push({ s, counts: tr.counts, placed: tr.placed, load: tr.load, v });
     }
     const newW = sumWeight(work, weight);
     const h = iter % histLen;
@@ -282,6 +307,8 @@ export function ruinAndRecreate(input: SearchInput, start: Solution, variants: F
       hist.fill(poolW);
     }
   }
+  const g = (globalThis as { __dbg?: Record<string, unknown> }).__dbg;
+  if (g) Object.assign(g, { iter, start: start.bins.length, poolW, poolN: pool.reduce((a, b) => a + b, 0), best: best.bins.length });
   return best;
 }
 
@@ -298,11 +325,10 @@ export function downsize(input: SearchInput, sol: Solution, variants: FillParams
       .sort((a, c) => stocks[a].cost - stocks[c].cost);
     const n = b.placed.length;
     for (const s of cheaper) {
-      const live = liveTypes(b.counts);
       let ok: Trial | null = null;
       for (const v of variants) {
         for (let o = 0; o < ORDER_COUNT && !ok; o++) {
-          const tr = tryFill(stocks[s].ctx, b.counts, makeOrder(live, dims, o, null), v, weight);
+          const tr = tryFill(stocks[s].ctx, b.counts, makeOrder(b.counts, dims, o, null), v, weight);
           if (tr.placed.length === n) ok = tr;
         }
         if (ok) break;
@@ -313,6 +339,7 @@ export function downsize(input: SearchInput, sol: Solution, variants: FillParams
         b.s = s;
         b.placed = ok.placed;
         b.load = ok.load;
+        b.v = variants[0];
         break;
       }
     }

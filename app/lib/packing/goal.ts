@@ -1,0 +1,185 @@
+// Goal-driven ruin and recreate for free guillotine patterns (stages 0). Each panel keeps its
+// free rectangles, so parts from the pool can be inserted into any panel; ruined panels are
+// rebuilt by replaying their kept parts. Aim: an empty pool with one panel fewer.
+import { fillBin, placeAndSplit, type Free, type GuillotineParams, type Placed } from "./fill";
+import { randInt } from "./prng";
+import { basicKey, fullSheets, lexLess, type SearchInput, type Solution } from "./search";
+
+interface GBin {
+  s: number;
+  counts: Int32Array;
+  placed: Placed[];
+  load: number;
+  v: GuillotineParams;
+  free: Free[];
+}
+
+const ENV = (globalThis as { process?: { env: Record<string, string | undefined> } }).process?.env ?? {};
+const FIRST_P = Number(ENV.SW_FIRST ?? 0.3);
+const DROP_MAX = Number(ENV.SW_DROP ?? 0.6);
+const KMAX = Number(ENV.SW_K ?? 3);
+const HIST = Number(ENV.SW_HIST ?? 50);
+
+export function goalDrivenGuillotine(input: SearchInput, start: Solution, variants: GuillotineParams[], costExp = Number(ENV.SW_EXP ?? 1.2)): Solution {
+  const { stocks, weight, dims, rng, now, deadline } = input;
+  const nT = weight.length;
+  const itemVariants = variants.filter((v) => v.driver === "item");
+  if (itemVariants.length === 0 || start.left.some((n) => n > 0)) return start;
+  const cost = new Float64Array(nT);
+  for (let t = 0; t < nT; t++) cost[t] = Math.pow(dims[t].l * dims[t].w, costExp);
+
+  const replay = (s: number, seq: number[], pool: Int32Array, v: GuillotineParams): GBin => {
+    const c = pool.slice();
+    const placed: Placed[] = [];
+    const free: Free[] = [];
+    const load = fillBin(stocks[s].ctx, c, seq, v, weight, placed, free);
+    const counts = new Int32Array(nT);
+    for (let t = 0; t < nT; t++) counts[t] = pool[t] - c[t];
+    return { s, counts, placed, load, v, free };
+  };
+
+  let bins: GBin[] = start.bins.map((b) => {
+    const v = b.v.kind === "guillotine" && b.v.driver === "item" ? b.v : itemVariants[0];
+    const r = replay(b.s, b.placed.map((p) => p.t), b.counts, v);
+    if (r.placed.length === b.placed.length) return r;
+    return { s: b.s, counts: b.counts.slice(), placed: b.placed.slice(), load: b.load, v, free: [] };
+  });
+  const toSolution = (bs: GBin[]): Solution => ({
+    bins: bs.filter((b) => b.placed.length > 0).map((b) => ({ s: b.s, counts: b.counts.slice(), placed: b.placed.slice(), load: b.load, v: b.v })),
+    left: new Int32Array(nT),
+  });
+  let best = toSolution(bins);
+  const done = () => fullSheets(best, stocks) <= input.lowerBound && !best.bins.some((b) => stocks[b.s].offcut);
+  if (done()) return best;
+
+  let pool = new Int32Array(nT);
+  const poolCost = (p: Int32Array) => {
+    let c = 0;
+    for (let t = 0; t < nT; t++) if (p[t] > 0) c += p[t] * cost[t];
+    return c;
+  };
+  const dropOne = (): boolean => {
+    const anyFull = bins.some((b) => !stocks[b.s].offcut);
+    let idx = -1;
+    let bestR = Infinity;
+    bins.forEach((b, i) => {
+      if (anyFull && stocks[b.s].offcut) return;
+      const r = b.load / stocks[b.s].area;
+      if (r < bestR) {
+        bestR = r;
+        idx = i;
+      }
+    });
+    if (idx < 0 || bins.length <= 1) return false;
+    for (let t = 0; t < nT; t++) pool[t] += bins[idx].counts[t];
+    bins.splice(idx, 1);
+    return true;
+  };
+  if (!dropOne()) return best;
+  let curCost = poolCost(pool);
+  const histLen = HIST;
+  const hist = new Float64Array(histLen).fill(curCost);
+  let iter = 0;
+
+  while (now() < deadline) {
+    iter++;
+    const nb = bins.length;
+    const saved = new Map<number, GBin>();
+    const work = pool.slice();
+    // ruin
+    const k = Math.min(nb, 1 + randInt(rng, KMAX));
+    const chosen = new Set<number>();
+    while (chosen.size < k) chosen.add(randInt(rng, nb));
+    for (const i of chosen) {
+      const b = bins[i];
+      saved.set(i, b);
+      const drop = 0.1 + DROP_MAX * rng();
+      const kept: number[] = [];
+      const keepCounts = new Int32Array(nT);
+      for (const p of b.placed) {
+        if (rng() >= drop) {
+          kept.push(p.t);
+          keepCounts[p.t]++;
+        } else work[p.t]++;
+      }
+      const v = rng() < 0.8 ? b.v : itemVariants[randInt(rng, itemVariants.length)];
+      let seq = kept;
+      if (rng() < FIRST_P) {
+        // give the biggest pool part a clean spot first
+        let bt = -1;
+        for (let t = 0; t < nT; t++) if (work[t] > 0 && (bt < 0 || cost[t] > cost[bt]) && rng() < 0.7) bt = t;
+        if (bt >= 0) {
+          seq = [bt, ...kept];
+          keepCounts[bt]++;
+          work[bt]--;
+        }
+      }
+      const nbin = replay(b.s, seq, keepCounts, v);
+      for (let t = 0; t < nT; t++) work[t] += keepCounts[t] - nbin.counts[t];
+      bins[i] = nbin;
+    }
+    // recreate: pool parts by decreasing cost (noisy), each into the snuggest free rectangle of any panel
+    const seq: { t: number; key: number }[] = [];
+    for (let t = 0; t < nT; t++) for (let c = 0; c < work[t]; c++) seq.push({ t, key: cost[t] * (1 + 0.3 * (rng() - 0.5)) });
+    seq.sort((a, b) => b.key - a.key);
+    for (const { t } of seq) {
+      if (rng() < 0.03) continue; // blink: leave it for a later round
+      let bi = -1;
+      let fi = -1;
+      let bo = null as null | { w: number; h: number; rot: boolean };
+      let bs = Infinity;
+      for (let i = 0; i < bins.length; i++) {
+        const b = bins[i];
+        const os = stocks[b.s].ctx.orients[t];
+        for (let f = 0; f < b.free.length; f++) {
+          const r = b.free[f];
+          for (const o of os) {
+            if (o.w <= r.w && o.h <= r.h) {
+              const sc = r.w * r.h - o.w * o.h;
+              if (sc < bs) {
+                bs = sc;
+                bi = i;
+                fi = f;
+                bo = o;
+              }
+            }
+          }
+        }
+      }
+      if (bi < 0 || !bo) continue;
+      if (!saved.has(bi)) {
+        const b = bins[bi];
+        saved.set(bi, b);
+        bins[bi] = { ...b, counts: b.counts.slice(), placed: b.placed.slice(), free: b.free.slice() };
+      }
+      const b = bins[bi];
+      const r = placeAndSplit(b.free, fi, bo, b.v.split);
+      b.placed.push({ t, x: r.x, y: r.y, w: bo.w, h: bo.h, rot: bo.rot });
+      b.counts[t]++;
+      b.load += weight[t];
+      work[t]--;
+    }
+    const newCost = poolCost(work);
+    const h = iter % histLen;
+    if (newCost <= curCost + 1e-9 || newCost <= hist[h] + 1e-9) {
+      pool = work;
+      curCost = newCost;
+      bins = bins.filter((b) => b.placed.length > 0);
+    } else {
+      for (const [i, b] of saved) bins[i] = b;
+    }
+    if (curCost < hist[h]) hist[h] = curCost;
+    if (curCost <= 1e-9) {
+      const sol = toSolution(bins);
+      if (lexLess(basicKey(sol, stocks), basicKey(best, stocks))) best = sol;
+      if (done()) break;
+      pool = new Int32Array(nT);
+      if (!dropOne()) break;
+      curCost = poolCost(pool);
+      hist.fill(curCost);
+    }
+  }
+  const g = (globalThis as { __dbg?: Record<string, unknown> }).__dbg;
+  if (g) Object.assign(g, { iter, start: start.bins.length, poolN: pool.reduce((a, b) => a + b, 0), best: best.bins.length });
+  return best;
+}
