@@ -229,6 +229,8 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
   const prep = prepare(job);
   const rng = mulberry32(job.seed);
   const variants = job.stages === 0 ? guillotineVariants() : stagedVariants(job.stages);
+  // shelf-like staged patterns are guillotine patterns too: good starts for long thin parts
+  const buildVariants = job.stages === 0 ? [...variants, ...stagedVariants(2), ...stagedVariants(3)] : variants;
   const dims = prep.lowerBoundItems.map((_, t) => {
     const p = job.parts[prep.typePart[t]];
     return { l: mmToUm(p.length) + prep.kerf, w: mmToUm(p.width) + prep.kerf };
@@ -250,8 +252,8 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
   const allOrders = Array.from({ length: ORDER_COUNT }, (_, i) => i);
   const cands: Solution[] = [];
   const hasOffcuts = prep.slots.some((s) => s.offcut);
-  cands.push(constructive(input, variants, allOrders, t0 + budget * 0.25));
-  if (hasOffcuts) cands.push(constructive({ ...input, offcutsFirst: false }, variants, allOrders, t0 + budget * 0.35));
+  cands.push(constructive(input, buildVariants, allOrders, t0 + budget * 0.25));
+  if (hasOffcuts) cands.push(constructive({ ...input, offcutsFirst: false }, buildVariants, allOrders, t0 + budget * 0.35));
   // single-heuristic passes give plans of different character (set-ups, strip structure)
   const singles = job.objective === "setups" ? variants.length : Math.min(8, variants.length);
   for (let i = 0; i < singles && now() < t0 + budget * 0.45; i++) {

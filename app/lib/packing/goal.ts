@@ -2,6 +2,7 @@
 // free rectangles, so parts from the pool can be inserted into any panel; ruined panels are
 // rebuilt by replaying their kept parts. Aim: an empty pool with one panel fewer.
 import { fillBin, placeAndSplit, type Free, type GuillotineParams, type Placed } from "./fill";
+import { layoutPanel } from "./layout";
 import { randInt } from "./prng";
 import { basicKey, fullSheets, lexLess, type SearchInput, type Solution } from "./search";
 
@@ -38,11 +39,18 @@ export function goalDrivenGuillotine(input: SearchInput, start: Solution, varian
     return { s, counts, placed, load, v, free };
   };
 
+  // the leftovers of a panel's guillotine decomposition are its free rectangles, whatever filler made it
   let bins: GBin[] = start.bins.map((b) => {
     const v = b.v.kind === "guillotine" && b.v.driver === "item" ? b.v : itemVariants[0];
-    const r = replay(b.s, b.placed.map((p) => p.t), b.counts, v);
-    if (r.placed.length === b.placed.length) return r;
-    return { s: b.s, counts: b.counts.slice(), placed: b.placed.slice(), load: b.load, v, free: [] };
+    const { W, H } = stocks[b.s].ctx;
+    let free: Free[] = [];
+    try {
+      const lay = layoutPanel({ x: 0, y: 0, w: W, h: H }, b.placed.map((p) => ({ x: p.x, y: p.y, w: p.w, h: p.h })), 0, 0);
+      free = lay.leftovers.map((r) => ({ x: r.x, y: r.y, w: r.w, h: r.h }));
+    } catch {
+      free = [];
+    }
+    return { s: b.s, counts: b.counts.slice(), placed: b.placed.slice(), load: b.load, v, free };
   });
   const toSolution = (bs: GBin[]): Solution => ({
     bins: bs.filter((b) => b.placed.length > 0).map((b) => ({ s: b.s, counts: b.counts.slice(), placed: b.placed.slice(), load: b.load, v: b.v })),

@@ -85,9 +85,10 @@ export function parseJob(input: unknown): JobParseResult {
   if (!r.success) {
     const issue = r.issues[0];
     const field = fieldName(issue.path);
-    const missing = issue.input === undefined && issue.type !== "strict_object";
-    const unknown = issue.type === "strict_object";
-    const problem = missing ? "is missing" : unknown ? "is not a known field" : issue.message;
+    // strict objects report both a missing key (expected: the key) and an unknown one (expected: never)
+    const unknown = issue.type === "strict_object" && issue.expected === "never";
+    const missing = !unknown && issue.received === "undefined";
+    const problem = missing ? "is missing" : unknown ? "is not a known field" : issue.type === "strict_object" ? "must be an object" : issue.message;
     return { ok: false, field, error: `${field}: ${problem}` };
   }
   const job = r.output as Job;

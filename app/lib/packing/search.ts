@@ -132,9 +132,12 @@ export function constructive(input: SearchInput, variants: FillParams[], orders:
     let bestKey = "";
     let bestV: FillParams = vlist[0];
     const orderCache = olist.map((o) => makeOrder(remaining, dims, o, null));
+    let late = false;
     for (const s of cands) {
-      for (let vi = 0; vi < vlist.length; vi++) {
-        for (let oi = 0; oi < olist.length; oi++) {
+      for (let vi = 0; vi < vlist.length && !late; vi++) {
+        // over budget: settle this panel with what has been tried
+        if (best && vi > 0 && input.now() > budgetEnd) late = true;
+        for (let oi = 0; oi < olist.length && !late; oi++) {
           const tr = tryFill(stocks[s].ctx, remaining, orderCache[oi], vlist[vi], weight);
           const better =
             !best ||
