@@ -1,6 +1,10 @@
 import { isRouteErrorResponse, Link, Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
 import type { Route } from "./+types/root";
+import { sessionMiddleware } from "./auth.server";
 import "./app.css";
+
+// Every request: cross-site check, then who is signed in (app/auth.server.ts).
+export const middleware: Route.MiddlewareFunction[] = [sessionMiddleware];
 
 export function Layout({ children }: { children: React.ReactNode }) {
   return (

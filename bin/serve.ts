@@ -16,6 +16,11 @@ app.disable("x-powered-by");
 app.use(compression());
 app.use("/assets", express.static(`${root}build/client/assets`, { immutable: true, maxAge: "1y" }));
 app.use(express.static(`${root}build/client`, { maxAge: "1h", index: false }));
+// The app reads the client's address from this header for rate limits; whatever a client sent is replaced.
+app.use((req, _res, next) => {
+  req.headers["x-stopwise-client-address"] = req.socket.remoteAddress ?? "unknown";
+  next();
+});
 app.all("/{*splat}", createRequestHandler({ build, mode: process.env.NODE_ENV }));
 
 const server = app.listen(port, host, () => console.log(`Stopwise listening on http://${host}:${port}`));

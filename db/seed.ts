@@ -138,6 +138,24 @@ export async function seedDemo(db: Database, today = new Date()): Promise<void> 
   });
 }
 
+/** A second, smaller shop, so that each shop seeing only its own data can be tried. */
+export const SECOND_SHOP_OWNER = { email: "owner@harrowgate.example", name: "Perpetua Harrowgate", role: "owner" } as const;
+
+export async function seedSecondShop(db: Database): Promise<void> {
+  const passwordHash = await hashPassword(DEMO_PASSWORD);
+  await db.transaction(async (tx) => {
+    const [shop] = await tx.insert(t.shops).values({ name: "Harrowgate Plaque Co.", currency: "GBP", displayUnit: "in" }).returning();
+    await tx.insert(t.users).values({ id: generateIdFromEntropySize(10), shopId: shop.id, passwordHash, ...SECOND_SHOP_OWNER });
+    const [oak] = await tx.insert(t.materials).values({ shopId: shop.id, name: "Oak-veneer MDF 12 mm", kind: "mdf", thicknessUm: mm(12) }).returning();
+    await tx.insert(t.stockPanels).values({ shopId: shop.id, materialId: oak.id, lengthUm: mm(2440), widthUm: mm(1220), costMinor: 6400, onHand: 2, grain: "length" });
+    const [customer] = await tx.insert(t.customers).values({ shopId: shop.id, name: "Lowick Parish Hall", email: "hall@lowick.example" }).returning();
+    const [plaque] = await tx.insert(t.products).values({ shopId: shop.id, name: "Memorial plaque 300 × 200", priceMinor: 5500, leadTimeDays: 14 }).returning();
+    await tx.insert(t.productParts).values({ productId: plaque.id, materialId: oak.id, name: "Plaque", lengthUm: mm(300), widthUm: mm(200), grainLocked: true });
+    const [order] = await tx.insert(t.orders).values({ shopId: shop.id, number: 501, customerId: customer.id, eventDate: "2027-03-14", dueDate: "2027-02-28", status: "confirmed" }).returning();
+    await tx.insert(t.orderLines).values({ orderId: order.id, productId: plaque.id, quantity: 1, unitPriceMinor: 5500, personalisation: ["In memory of the founders"] });
+  });
+}
+
 // Run directly (bin/start): seed only an empty database, so a second start keeps the shop's data.
 if (import.meta.url === `file://${process.argv[1]}`) {
   const { createDatabase } = await import("../app/db.server");
@@ -145,7 +163,8 @@ if (import.meta.url === `file://${process.argv[1]}`) {
   try {
     if (await isEmpty(db)) {
       await seedDemo(db);
-      console.log("Loaded the demo shop (Tallowmere Sign & Keepsake).");
+      await seedSecondShop(db);
+      console.log("Loaded the demo shops (Tallowmere Sign & Keepsake; Harrowgate Plaque Co.).");
     }
   } finally {
     await client.end();

@@ -1,6 +1,9 @@
 // The areas of Stopwise, in the order work flows through a shop (DESIGN.md, "The flow of data").
+import { can, type Permission, type Role } from "~/lib/permissions";
+
 export type Area = {
   path: string;
+  permission: Permission;
   label: string;
   forWhom: string;
   summary: string;
@@ -10,6 +13,7 @@ export type Area = {
 export const AREAS: Area[] = [
   {
     path: "/orders",
+    permission: "orders:read",
     label: "Orders",
     forWhom: "Owner",
     summary: "Who ordered what, for which event date, and when it must leave the shop.",
@@ -21,6 +25,7 @@ export const AREAS: Area[] = [
   },
   {
     path: "/customers",
+    permission: "customers:read",
     label: "Customers",
     forWhom: "Owner",
     summary: "The people and businesses the shop makes for.",
@@ -28,6 +33,7 @@ export const AREAS: Area[] = [
   },
   {
     path: "/catalogue",
+    permission: "catalogue:read",
     label: "Catalogue",
     forWhom: "Owner",
     summary: "What the shop sells, each product as a bill of parts.",
@@ -38,6 +44,7 @@ export const AREAS: Area[] = [
   },
   {
     path: "/batches",
+    permission: "batches:read",
     label: "Batches",
     forWhom: "Planner",
     summary: "What is due, grouped per material and thickness, laid out on panels.",
@@ -49,6 +56,7 @@ export const AREAS: Area[] = [
   },
   {
     path: "/rack",
+    permission: "rack:read",
     label: "Offcut rack",
     forWhom: "Planner",
     summary: "Reusable offcuts by material, with their size and where they sit.",
@@ -56,6 +64,7 @@ export const AREAS: Area[] = [
   },
   {
     path: "/saw",
+    permission: "floor:read",
     label: "Saw station",
     forWhom: "Sawyer",
     summary: "The released batches, set-up by set-up, for the tablet beside the saw.",
@@ -67,6 +76,7 @@ export const AREAS: Area[] = [
   },
   {
     path: "/sleds",
+    permission: "sleds:read",
     label: "Sleds & saws",
     forWhom: "Sawyer",
     summary: "Measured blade kerf per saw, and squareness checks of each crosscut sled.",
@@ -74,6 +84,7 @@ export const AREAS: Area[] = [
   },
   {
     path: "/ledger",
+    permission: "ledger:read",
     label: "Ledger",
     forWhom: "Bookkeeper",
     summary: "What each batch cost and what became scrap or a reusable offcut.",
@@ -81,6 +92,7 @@ export const AREAS: Area[] = [
   },
   {
     path: "/team",
+    permission: "team:manage",
     label: "Team",
     forWhom: "Owner",
     summary: "The people of the shop and their roles.",
@@ -88,12 +100,17 @@ export const AREAS: Area[] = [
   },
   {
     path: "/settings",
+    permission: "settings:read",
     label: "Shop settings",
     forWhom: "Owner",
     summary: "Units, currency, kerf, trim, laser bed and saw capacities.",
     comingSoon: ["Display unit (millimetres or fractional inches) and currency", "Default kerf, edge trim, minimum offcut, saw and laser limits"],
   },
 ];
+
+export function areasFor(role: Role): Area[] {
+  return AREAS.filter((area) => can(role, area.permission));
+}
 
 export function areaFor(path: string): Area {
   const area = AREAS.find((a) => a.path === path);

@@ -1,5 +1,12 @@
 import { Link } from "react-router";
-import { AREAS } from "~/components/areas";
+import type { Route } from "./+types/home";
+import { requirePermission } from "~/auth.server";
+import { areasFor } from "~/components/areas";
+
+export function loader(args: Route.LoaderArgs) {
+  const user = requirePermission(args, "dashboard:read");
+  return { name: user.name, role: user.role };
+}
 
 const FLOW = [
   { step: "Take the order", detail: "names, event date, due date, personalisation", path: "/orders" },
@@ -9,11 +16,13 @@ const FLOW = [
   { step: "Count the cost", detail: "material, offcuts and scrap per batch", path: "/ledger" },
 ];
 
-export default function Home() {
+export default function Home({ loaderData }: Route.ComponentProps) {
+  const areas = areasFor(loaderData.role);
   return (
     <div className="space-y-10">
       <title>Stopwise</title>
       <header className="max-w-3xl space-y-3">
+        <p className="text-sm font-medium uppercase tracking-wider text-edge">Hello, {loaderData.name}</p>
         <h1 className="text-display font-semibold">From the order to the offcut</h1>
         <p className="text-lg text-muted">
           Stopwise carries a personalised order through the shop: it batches what is due by material, lays the parts
@@ -37,7 +46,7 @@ export default function Home() {
       <section className="space-y-3">
         <h2 className="text-xl font-semibold">Areas</h2>
         <ul className="grid gap-3 sm:grid-cols-2 lg:grid-cols-3">
-          {AREAS.map((area) => (
+          {areas.map((area) => (
             <li key={area.path}>
               <Link to={area.path} className="block h-full rounded-lg border border-line bg-card p-4 hover:border-edge">
                 <span className="flex items-baseline justify-between gap-2">

@@ -1,14 +1,27 @@
-import { Link, NavLink, Outlet } from "react-router";
-import { AREAS } from "~/components/areas";
+import { Form, isRouteErrorResponse, Link, NavLink, Outlet, useRouteError, useRouteLoaderData } from "react-router";
+import type { Route } from "./+types/shell";
+import { requirePermission } from "~/auth.server";
+import { areasFor, type Area } from "~/components/areas";
 import { Wordmark } from "~/components/wordmark";
+import { can } from "~/lib/permissions";
+import { outboxEnabled } from "~/outbox.server";
 
-function NavItems({ onNavigate }: { onNavigate?: () => void }) {
+export function loader(args: Route.LoaderArgs) {
+  const user = requirePermission(args, "dashboard:read");
+  return {
+    user: { name: user.name, role: user.role, shopName: user.shopName },
+    outbox: outboxEnabled() && can(user.role, "outbox:read"),
+  };
+}
+
+function NavItems({ areas, outbox, onNavigate }: { areas: Area[]; outbox: boolean; onNavigate?: () => void }) {
+  const items = [...areas.map((a) => ({ path: a.path, label: a.label, note: a.forWhom })), ...(outbox ? [{ path: "/dev/outbox", label: "Outbox", note: "Dev" }] : [])];
   return (
     <ul className="space-y-0.5">
-      {AREAS.map((area) => (
-        <li key={area.path}>
+      {items.map((item) => (
+        <li key={item.path}>
           <NavLink
-            to={area.path}
+            to={item.path}
             onClick={onNavigate}
             className={({ isActive }) =>
               `flex items-baseline justify-between rounded-md px-3 py-2.5 text-[0.95rem] ${
@@ -16,8 +29,8 @@ function NavItems({ onNavigate }: { onNavigate?: () => void }) {
               }`
             }
           >
-            <span>{area.label}</span>
-            <span className="text-xs text-rail-ink/60">{area.forWhom}</span>
+            <span>{item.label}</span>
+            <span className="text-xs text-rail-ink/60">{item.note}</span>
           </NavLink>
         </li>
       ))}
@@ -25,7 +38,27 @@ function NavItems({ onNavigate }: { onNavigate?: () => void }) {
   );
 }
 
-export default function Shell() {
+function Person({ user }: { user: { name: string; role: string; shopName: string } }) {
+  return (
+    <div className="space-y-2 rounded-md border border-rail-ink/20 p-3 text-sm">
+      <p className="font-semibold text-white">{user.name}</p>
+      <p className="text-rail-ink/80">
+        {user.role} · {user.shopName}
+      </p>
+      <Form method="post" action="/sign-out">
+        <button type="submit" className="mt-1 min-h-10 w-full rounded-md border border-rail-ink/30 px-3 text-rail-ink hover:bg-rail-hover">
+          Sign out
+        </button>
+      </Form>
+    </div>
+  );
+}
+
+type ShellData = Awaited<ReturnType<typeof loader>>;
+
+function Frame({ shell, children }: { shell: ShellData | undefined; children: React.ReactNode }) {
+  const allAreas = shell ? areasFor(shell.user.role) : [];
+  const outbox = shell?.outbox ?? false;
   return (
     <div className="min-h-screen lg:grid lg:grid-cols-[15.5rem_1fr]">
       <aside className="hidden bg-rail text-rail-ink lg:block">
@@ -33,9 +66,10 @@ export default function Shell() {
           <Link to="/" className="px-2 pt-1 text-white">
             <Wordmark />
           </Link>
-          <nav aria-label="Areas">
-            <NavItems />
+          <nav aria-label="Areas" className="flex-1">
+            <NavItems areas={allAreas} outbox={outbox} />
           </nav>
+          {shell && <Person user={shell.user} />}
         </div>
       </aside>
 
@@ -50,17 +84,54 @@ export default function Shell() {
               <span className="hidden group-open:inline">Close</span>
             </span>
           </summary>
-          <nav aria-label="Areas" className="border-t border-rail-ink/20 px-2 pb-3 pt-2">
+          <nav aria-label="Areas" className="space-y-3 border-t border-rail-ink/20 px-2 pb-3 pt-2">
             <NavItems
+              areas={allAreas}
+              outbox={outbox}
               onNavigate={() => document.querySelector<HTMLDetailsElement>("header details")?.removeAttribute("open")}
             />
+            {shell && <Person user={shell.user} />}
           </nav>
         </details>
       </header>
 
-      <main className="mx-auto w-full max-w-6xl px-4 py-6 sm:px-6 lg:px-10 lg:py-10">
-        <Outlet />
-      </main>
+      <main className="mx-auto w-full max-w-6xl px-4 py-6 sm:px-6 lg:px-10 lg:py-10">{children}</main>
     </div>
+  );
+}
+
+export default function Shell({ loaderData }: Route.ComponentProps) {
+  return (
+    <Frame shell={loaderData}>
+      <Outlet />
+    </Frame>
+  );
+}
+
+// A refused or missing page keeps the navigation around it.
+export function ErrorBoundary() {
+  const error = useRouteError();
+  const shell = useRouteLoaderData<typeof loader>("routes/shell");
+  if (!shell) throw error; // the shell itself failed: the root boundary takes it
+  const status = isRouteErrorResponse(error) ? error.status : 500;
+  const title = status === 403 ? "Not for your role" : status === 404 ? "There is nothing at this address" : "Something went wrong";
+  const detail =
+    isRouteErrorResponse(error) && typeof error.data === "string" && status !== 404
+      ? error.data
+      : status === 404
+        ? "The link may be old, or the item may belong to another shop or have been removed."
+        : "The problem has been logged. Try again in a moment.";
+  return (
+    <Frame shell={shell}>
+      <section className="max-w-xl space-y-3">
+        <title>{`${status} · Stopwise`}</title>
+        <p className="font-semibold text-edge">Error {status}</p>
+        <h1 className="text-display font-semibold">{title}</h1>
+        <p className="text-muted">{detail}</p>
+        <Link to="/" className="inline-block rounded-md bg-edge px-4 py-2 font-medium text-white hover:bg-edge-dark">
+          Back to the home page
+        </Link>
+      </section>
+    </Frame>
   );
 }

@@ -30,10 +30,4 @@ describe("/api/health", async () => {
     const up = await request(server).get("/api/health");
     expect(up.status).toBe(200);
   });
-
-  it("answers 404 with the helpful page for an unknown address", async () => {
-    const res = await request(server).get("/no-such-page");
-    expect(res.status).toBe(404);
-    expect(res.text).toContain("There is nothing at this address");
-  });
 });

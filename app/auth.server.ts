@@ -1,0 +1,138 @@
+import { DrizzlePostgreSQLAdapter } from "@lucia-auth/adapter-drizzle";
+import { Cookie, Lucia, TimeSpan } from "lucia";
+import { data, redirect, type MiddlewareFunction, type RouterContextProvider } from "react-router";
+import { eq } from "drizzle-orm";
+import { sessions, shops, users } from "../db/schema";
+import { userContext, type SignedInUser } from "~/context";
+import { getDb } from "~/db.server";
+import { can, deniedMessage, type Permission, type Role } from "~/lib/permissions";
+
+// Sessions expire 12 hours after the last renewal; lucia renews (a new expiry, same id) once half of
+// that has passed, so a day at the saw keeps one session while an idle one ends (OWASP ASVS 4.0.3 V3.3.2).
+const SESSION_LIFETIME = new TimeSpan(12, "h");
+
+let lucia: Lucia | undefined;
+function auth(): Lucia {
+  lucia ??= new Lucia(new DrizzlePostgreSQLAdapter(getDb(), sessions, users), {
+    sessionExpiresIn: SESSION_LIFETIME,
+    sessionCookie: { name: "stopwise_session", expires: true, attributes: { sameSite: "lax", path: "/" } },
+  });
+  return lucia;
+}
+
+/** HttpOnly, SameSite=Lax, Path=/ always; Secure when the request came over https (ASVS V3.4.1–3.4.3, V3.4.5). */
+function serialize(cookie: Cookie, request: Request): string {
+  const secure = new URL(request.url).protocol === "https:";
+  return new Cookie(cookie.name, cookie.value, { ...cookie.attributes, secure, httpOnly: true, sameSite: "lax", path: "/" }).serialize();
+}
+
+export async function createSessionCookie(userId: string, request: Request): Promise<string> {
+  const session = await auth().createSession(userId, {});
+  return serialize(auth().createSessionCookie(session.id), request);
+}
+
+export function blankSessionCookie(request: Request): string {
+  return serialize(auth().createBlankSessionCookie(), request);
+}
+
+export function sessionIdFrom(request: Request): string | null {
+  return auth().readSessionCookie(request.headers.get("Cookie") ?? "");
+}
+
+export async function invalidateSession(sessionId: string): Promise<void> {
+  await auth().invalidateSession(sessionId);
+}
+
+export async function invalidateUserSessions(userId: string): Promise<void> {
+  await auth().invalidateUserSessions(userId);
+}
+
+async function loadUser(userId: string): Promise<SignedInUser | null> {
+  const [row] = await getDb()
+    .select({ id: users.id, shopId: users.shopId, shopName: shops.name, email: users.email, name: users.name, role: users.role })
+    .from(users)
+    .innerJoin(shops, eq(shops.id, users.shopId))
+    .where(eq(users.id, userId));
+  return row ?? null;
+}
+
+const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
+
+/**
+ * Refuses a state-changing request that a browser says came from another site (OWASP ASVS 4.0.3
+ * V4.2.2, V13.2.3): a foreign Origin, or Sec-Fetch-Site other than same-origin / none. Clients that
+ * send neither (scripts, webhooks) carry no browser cookies to abuse and pass.
+ */
+export function isCrossSite(request: Request): boolean {
+  if (SAFE_METHODS.has(request.method)) return false;
+  const fetchSite = request.headers.get("Sec-Fetch-Site");
+  if (fetchSite && fetchSite !== "same-origin" && fetchSite !== "none") return true;
+  const origin = request.headers.get("Origin");
+  if (origin && origin !== "null" && origin !== new URL(request.url).origin) return true;
+  if (origin === "null") return true;
+  return false;
+}
+
+export function isApiRequest(request: Request): boolean {
+  return new URL(request.url).pathname.startsWith("/api/");
+}
+
+/** Root middleware: cross-site check, then the session (renewed on the way out when lucia extends it). */
+export const sessionMiddleware: MiddlewareFunction<Response> = async ({ request, context }, next) => {
+  if (isCrossSite(request)) {
+    const message = "This request came from another site and was refused.";
+    if (isApiRequest(request)) return Response.json({ error: message }, { status: 403 });
+    throw data(message, { status: 403 });
+  }
+
+  const sessionId = sessionIdFrom(request);
+  let setCookie: string | null = null;
+  let user: SignedInUser | null = null;
+  if (sessionId) {
+    const { session } = await auth().validateSession(sessionId);
+    if (!session) setCookie = blankSessionCookie(request);
+    else {
+      user = await loadUser(session.userId);
+      if (session.fresh) setCookie = serialize(auth().createSessionCookie(session.id), request);
+    }
+  }
+  context.set(userContext, user);
+  const response = await next();
+  if (setCookie && !response.headers.has("Set-Cookie")) response.headers.append("Set-Cookie", setCookie);
+  return response;
+};
+
+type Args = { request: Request; context: Readonly<RouterContextProvider> };
+
+export function currentUser({ context }: Pick<Args, "context">): SignedInUser | null {
+  return context.get(userContext);
+}
+
+/**
+ * The signed-in person holding `permission`, or: signed out → pages redirect to sign-in with the
+ * return address, API routes answer 401; wrong role → 403 ("you need the … role").
+ */
+export function requirePermission({ request, context }: Args, permission: Permission): SignedInUser {
+  const user = context.get(userContext);
+  const api = isApiRequest(request);
+  if (!user) {
+    if (api) throw Response.json({ error: "Sign in first." }, { status: 401 });
+    const url = new URL(request.url);
+    throw redirect(`/sign-in?redirectTo=${encodeURIComponent(url.pathname + url.search)}`);
+  }
+  if (!can(user.role, permission)) {
+    if (api) throw Response.json({ error: deniedMessage(permission) }, { status: 403 });
+    throw data(deniedMessage(permission), { status: 403 });
+  }
+  return user;
+}
+
+export function hasPermission(role: Role, permission: Permission) {
+  return can(role, permission);
+}
+
+/** Only same-site paths: an open redirect would let a link send people off-site after signing in. */
+export function safeRedirect(to: FormDataEntryValue | string | null | undefined, fallback = "/"): string {
+  if (typeof to !== "string" || !to.startsWith("/") || to.startsWith("//") || to.startsWith("/\\")) return fallback;
+  return to;
+}

@@ -1,0 +1,61 @@
+import { PassThrough } from "node:stream";
+import { createReadableStreamFromReadable } from "@react-router/node";
+import { isbot } from "isbot";
+import type { RenderToPipeableStreamOptions } from "react-dom/server";
+import { renderToPipeableStream } from "react-dom/server";
+import { isRouteErrorResponse, ServerRouter, type EntryContext, type HandleErrorFunction } from "react-router";
+
+export const streamTimeout = 5_000;
+
+// Pages may not be framed elsewhere, nor their type guessed, nor their address leaked to other sites.
+function setDocumentHeaders(headers: Headers) {
+  headers.set("Content-Type", "text/html; charset=utf-8");
+  headers.set("X-Content-Type-Options", "nosniff");
+  headers.set("Referrer-Policy", "same-origin");
+  headers.set("X-Frame-Options", "DENY");
+  headers.set("Content-Security-Policy", "frame-ancestors 'none'; base-uri 'self'; form-action 'self'; object-src 'none'");
+}
+
+export default function handleRequest(request: Request, responseStatusCode: number, responseHeaders: Headers, routerContext: EntryContext) {
+  if (request.method.toUpperCase() === "HEAD") {
+    return new Response(null, { status: responseStatusCode, headers: responseHeaders });
+  }
+
+  return new Promise<Response>((resolve, reject) => {
+    let shellRendered = false;
+    const userAgent = request.headers.get("user-agent");
+    // Crawlers get the whole document at once; people get it streamed.
+    const readyOption: keyof RenderToPipeableStreamOptions = (userAgent && isbot(userAgent)) || routerContext.isSpaMode ? "onAllReady" : "onShellReady";
+    let timeoutId: ReturnType<typeof setTimeout> | undefined = setTimeout(() => abort(), streamTimeout + 1000);
+
+    const { pipe, abort } = renderToPipeableStream(<ServerRouter context={routerContext} url={request.url} />, {
+      [readyOption]() {
+        shellRendered = true;
+        const body = new PassThrough({
+          final(callback) {
+            clearTimeout(timeoutId);
+            timeoutId = undefined;
+            callback();
+          },
+        });
+        setDocumentHeaders(responseHeaders);
+        pipe(body);
+        resolve(new Response(createReadableStreamFromReadable(body), { headers: responseHeaders, status: responseStatusCode }));
+      },
+      onShellError(error: unknown) {
+        reject(error);
+      },
+      onError(error: unknown) {
+        responseStatusCode = 500;
+        if (shellRendered) console.error(error);
+      },
+    });
+  });
+}
+
+// Refusals and misses (4xx) are answers, not faults: only real errors reach the log.
+export const handleError: HandleErrorFunction = (error, { request }) => {
+  if (request.signal.aborted) return;
+  if (isRouteErrorResponse(error) && error.status < 500) return;
+  console.error(error);
+};

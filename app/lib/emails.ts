@@ -1,0 +1,31 @@
+// The words of Stopwise's e-mails (plain text; links on their own lines so any mail client shows them).
+import type { Role } from "./permissions";
+
+export function invitationEmail(input: { shopName: string; inviterName: string; role: Role; link: string; expiresAt: Date }) {
+  return {
+    subject: `${input.inviterName} invites you to ${input.shopName} on Stopwise`,
+    text: [
+      `${input.inviterName} has invited you to join ${input.shopName} on Stopwise as ${input.role}.`,
+      "",
+      "Open this link to choose your name and password:",
+      input.link,
+      "",
+      `The link works once and until ${input.expiresAt.toUTCString()}.`,
+      "If you did not expect this, ignore this e-mail.",
+    ].join("\n"),
+  };
+}
+
+export function passwordResetEmail(input: { name: string; link: string }) {
+  return {
+    subject: "Reset your Stopwise password",
+    text: [
+      `Hello ${input.name},`,
+      "",
+      "Someone (hopefully you) asked to reset the password of your Stopwise account. Open this link to choose a new one:",
+      input.link,
+      "",
+      "The link works once and for one hour. If you did not ask, ignore this e-mail: your password stays as it is.",
+    ].join("\n"),
+  };
+}
