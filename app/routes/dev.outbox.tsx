@@ -1,6 +1,7 @@
 import { data } from "react-router";
 import type { Route } from "./+types/dev.outbox";
 import { requirePermission } from "~/auth.server";
+import { PageHeader } from "~/components/page-header";
 import { outboxEnabled, readOutbox } from "~/outbox.server";
 
 // Development only: exists when the scripts run the fake SMTP server (STOPWISE_OUTBOX_DIR is set).
@@ -24,12 +25,9 @@ const linkify = (text: string) =>
 export default function Outbox({ loaderData }: Route.ComponentProps) {
   return (
     <div className="space-y-6">
-      <title>Outbox · Stopwise</title>
-      <header className="space-y-1">
-        <p className="text-sm font-medium uppercase tracking-wider text-edge">Development</p>
-        <h1 className="text-display font-semibold">Outbox</h1>
-        <p className="text-muted">Mail caught by the local fake SMTP server, newest first. Nothing here left this machine.</p>
-      </header>
+      <PageHeader eyebrow="Development" title="Outbox">
+        Mail caught by the local fake SMTP server, newest first. Nothing here left this machine.
+      </PageHeader>
       {loaderData.messages.length === 0 && <p className="text-muted">No mail yet.</p>}
       <ul className="space-y-4">
         {loaderData.messages.map((m) => (

@@ -3,6 +3,7 @@ import { data, Form, useActionData } from "react-router";
 import type { Route } from "./+types/team";
 import { requirePermission } from "~/auth.server";
 import { Field, FormAlert, SelectField, SubmitButton } from "~/components/forms";
+import { PageHeader } from "~/components/page-header";
 import { invitationEmail } from "~/lib/emails";
 import { parseForm } from "~/lib/forms";
 import { EmailSchema } from "~/lib/password-policy";
@@ -69,6 +70,14 @@ export async function action(args: Route.ActionArgs) {
   }
 }
 
+function RoleOptions() {
+  return ROLES.map((r) => (
+    <option key={r} value={r}>
+      {r}
+    </option>
+  ));
+}
+
 const dateFormat = new Intl.DateTimeFormat("en-GB", { day: "numeric", month: "short", year: "numeric" });
 
 export default function Team({ loaderData }: Route.ComponentProps) {
@@ -77,12 +86,9 @@ export default function Team({ loaderData }: Route.ComponentProps) {
   const { members, invitations, me } = loaderData;
   return (
     <div className="space-y-8">
-      <title>Team · Stopwise</title>
-      <header className="space-y-1">
-        <p className="text-sm font-medium uppercase tracking-wider text-edge">Owner</p>
-        <h1 className="text-display font-semibold">Team</h1>
-        <p className="text-muted">Everyone who works in this shop, and what their role lets them do.</p>
-      </header>
+      <PageHeader eyebrow="Owner" title="Team">
+        Everyone who works in this shop, and what their role lets them do.
+      </PageHeader>
 
       {actionData?.notice && <FormAlert tone="ok">{actionData.notice}</FormAlert>}
       {errors.form && <FormAlert>{errors.form}</FormAlert>}
@@ -103,11 +109,7 @@ export default function Team({ loaderData }: Route.ComponentProps) {
                   <input type="hidden" name="intent" value="role" />
                   <input type="hidden" name="memberId" value={m.id} />
                   <SelectField label={`Role of ${m.name}`} name="role" id={`role-${m.id}`} defaultValue={m.role} className="[&>label]:sr-only">
-                    {ROLES.map((r) => (
-                      <option key={r} value={r}>
-                        {r}
-                      </option>
-                    ))}
+                    <RoleOptions />
                   </SelectField>
                   <button type="submit" className="min-h-11 rounded-md border border-line bg-white px-4 font-medium hover:border-edge">
                     Change role
@@ -134,11 +136,7 @@ export default function Team({ loaderData }: Route.ComponentProps) {
             <input type="hidden" name="intent" value="invite" />
             <Field label="E-mail" name="email" type="email" required error={actionData?.intent === "invite" ? errors.email : undefined} />
             <SelectField label="Role" name="role" defaultValue="sawyer" error={actionData?.intent === "invite" ? errors.role : undefined}>
-              {ROLES.map((r) => (
-                <option key={r} value={r}>
-                  {r}
-                </option>
-              ))}
+              <RoleOptions />
             </SelectField>
             <SubmitButton pendingText="Sending…">Send invitation</SubmitButton>
           </Form>
