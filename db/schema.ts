@@ -197,9 +197,18 @@ export const orders = pgTable(
     dueDate: date("due_date", { mode: "string" }).notNull(),
     status: orderStatusEnum("status").notNull().default("draft"),
     notes: text("notes").notNull().default(""),
+    confirmedAt: timestamp("confirmed_at", { withTimezone: true, mode: "date" }),
+    // The confirmation e-mail: when it went out, or why the last try failed (retried without re-confirming).
+    confirmationSentAt: timestamp("confirmation_sent_at", { withTimezone: true, mode: "date" }),
+    confirmationError: text("confirmation_error"),
     createdAt: createdAt(),
   },
-  (t) => [uniqueIndex("orders_shop_number_key").on(t.shopId, t.number), index("orders_due_idx").on(t.shopId, t.dueDate)],
+  (t) => [
+    uniqueIndex("orders_shop_number_key").on(t.shopId, t.number),
+    index("orders_due_idx").on(t.shopId, t.dueDate),
+    index("orders_status_idx").on(t.shopId, t.status),
+    index("orders_customer_idx").on(t.customerId),
+  ],
 );
 
 export const orderLines = pgTable(
@@ -256,3 +265,24 @@ export const rateLimits = pgTable("rate_limits", {
   points: integer("points").notNull().default(0),
   expire: timestamp("expire", { withTimezone: true, mode: "date" }),
 });
+
+// Artwork attached to an order line; the bytes live in the storage folder under `storageKey`, never
+// under the user's file name.
+export const lineFiles = pgTable(
+  "line_files",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    shopId: uuid("shop_id")
+      .notNull()
+      .references(() => shops.id, { onDelete: "cascade" }),
+    orderLineId: uuid("order_line_id")
+      .notNull()
+      .references(() => orderLines.id, { onDelete: "cascade" }),
+    fileName: text("file_name").notNull(),
+    contentType: text("content_type").notNull(),
+    sizeBytes: integer("size_bytes").notNull(),
+    storageKey: text("storage_key").notNull().unique(),
+    createdAt: createdAt(),
+  },
+  (t) => [index("line_files_line_idx").on(t.orderLineId)],
+);

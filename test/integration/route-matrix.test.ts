@@ -24,6 +24,13 @@ const page = (...allowed: Role[]): Statuses => ({
   bookkeeper: allowed.includes("bookkeeper") ? 200 : 403,
 });
 const NO_ACTION = all(405);
+/** An id-bearing page asked with an id that exists nowhere: the permission check comes first (403), then 404. */
+const notFoundFor = (...allowed: Role[]): Statuses => {
+  const statuses = page(...allowed);
+  for (const role of allowed) statuses[role] = 404;
+  return statuses;
+};
+const MISSING = "00000000-0000-4000-8000-000000000000";
 
 const MATRIX: Record<string, Entry> = {
   "/api/health": { get: all(200), post: NO_ACTION },
@@ -35,9 +42,18 @@ const MATRIX: Record<string, Entry> = {
   "/reset-password/:token": { get: all(200), post: all(400), sample: "/reset-password/not-a-real-token" },
   "/invitation/:token": { get: all(200), post: all(400), sample: "/invitation/not-a-real-token" },
   "/": { get: page("owner", "planner", "sawyer", "bookkeeper"), post: NO_ACTION },
+  "/api/orders": { get: { ...page("owner", "planner", "bookkeeper"), signedOut: 401 }, post: NO_ACTION },
   "/orders": { get: page("owner", "planner", "bookkeeper"), post: NO_ACTION },
+  "/orders/new": { get: page("owner"), post: NO_ACTION },
+  "/orders/:orderId": { get: notFoundFor("owner", "planner", "bookkeeper"), post: NO_ACTION, sample: `/orders/${MISSING}` },
+  "/orders/:orderId/files/:fileId": { get: notFoundFor("owner", "planner", "bookkeeper"), post: NO_ACTION, sample: `/orders/${MISSING}/files/${MISSING}` },
   "/customers": { get: page("owner", "planner", "bookkeeper"), post: NO_ACTION },
+  "/customers/new": { get: page("owner"), post: NO_ACTION },
+  "/customers/:customerId": { get: notFoundFor("owner", "planner", "bookkeeper"), post: NO_ACTION, sample: `/customers/${MISSING}` },
   "/catalogue": { get: page("owner", "planner", "bookkeeper"), post: NO_ACTION },
+  "/catalogue/materials": { get: page("owner", "planner", "bookkeeper"), post: NO_ACTION },
+  "/catalogue/products/new": { get: page("owner"), post: NO_ACTION },
+  "/catalogue/products/:productId": { get: notFoundFor("owner", "planner", "bookkeeper"), post: NO_ACTION, sample: `/catalogue/products/${MISSING}` },
   "/batches": { get: page("owner", "planner", "sawyer", "bookkeeper"), post: NO_ACTION },
   "/rack": { get: page("owner", "planner", "sawyer", "bookkeeper"), post: NO_ACTION },
   "/saw": { get: page("owner", "planner", "sawyer"), post: NO_ACTION },

@@ -132,7 +132,7 @@ interface Built {
   sol: Solution;
 }
 
-function buildPlan(prep: Prepared, sol: Solution, elapsed: number): Plan {
+function buildPlan(prep: Prepared, sol: Solution, elapsed: number, lbAll: number): Plan {
   const { job, kerf } = prep;
   const minOff = job.minOffcut ?? DEFAULT_MIN_OFFCUT;
   const minShort = mmToUm(minOff.shortSide);
@@ -209,7 +209,7 @@ function buildPlan(prep: Prepared, sol: Solution, elapsed: number): Plan {
       scrapArea: um2ToMm2(scrapArea),
       kerfLoss: um2ToMm2(kerfArea),
       setups: setups.length,
-      lowerBound: lowerBound(prep, placedCounts),
+      lowerBound: placedCounts.every((n, t) => n === prep.demand[t]) ? lbAll : lowerBound(prep, placedCounts),
       elapsedMs: elapsed,
     },
   };
@@ -263,21 +263,32 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
       cands.push(constructive(input, [v], [o], Infinity));
     }
   }
+  const dbg = (globalThis as { __dbg?: Record<string, unknown> }).__dbg;
+  if (dbg) dbg.tConstruct = now() - t0;
   let best = cands[0];
   for (const c of cands) if (lexLess(basicKey(c, prep.slots), basicKey(best, prep.slots))) best = c;
   // improvement: leave a little time to lay out and check the plan
   const improveEnd = t0 + budget * 0.92;
   const improved =
     job.stages === 0
-      ? goalDrivenGuillotine({ ...input, deadline: improveEnd }, best, variants as GuillotineParams[])
+      ? goalDrivenGuillotine({ ...input, deadline: improveEnd }, best, variants as GuillotineParams[], buildVariants)
       : ruinAndRecreate({ ...input, deadline: improveEnd }, best, variants);
   cands.push(improved);
   const finals = cands.map((c) => (prep.slots.length > 1 ? downsize(input, c, variants) : c));
 
+  if (dbg) dbg.tImprove = now() - t0;
+  // lay out only the candidates that can win: the best few on sheets, more when set-ups decide
+  const ranked = finals
+    .map((sol) => ({ sol, k: basicKey(sol, prep.slots) }))
+    .sort((a, b) => (lexLess(a.k, b.k) ? -1 : lexLess(b.k, a.k) ? 1 : 0));
+  const top = ranked[0].k;
+  const eligible = ranked.filter((r) =>
+    job.objective === "setups" ? r.k[0] === top[0] && r.k[1] <= top[1] + 1 : r.k[0] === top[0] && r.k[1] === top[1],
+  );
   const built: Built[] = [];
-  for (const sol of finals) {
+  for (const { sol } of eligible.slice(0, job.objective === "setups" ? 60 : 8)) {
     try {
-      built.push({ sol, plan: buildPlan(prep, sol, 0) });
+      built.push({ sol, plan: buildPlan(prep, sol, 0, lb) });
     } catch {
       // a layout the cut derivation rejects is never offered
     }
@@ -296,6 +307,7 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
     const kb = key(b);
     return lexLess(ka, kb) ? -1 : lexLess(kb, ka) ? 1 : 0;
   });
+  if (dbg) dbg.tBuilt = now() - t0;
   for (const b of pool) {
     b.plan.metrics.elapsedMs = Math.round((now() - t0) * 10) / 10;
     if (validatePlan(job, b.plan).ok) return b.plan;

@@ -1,10 +1,10 @@
 // Goal-driven ruin and recreate for free guillotine patterns (stages 0). Each panel keeps its
 // free rectangles, so parts from the pool can be inserted into any panel; ruined panels are
 // rebuilt by replaying their kept parts. Aim: an empty pool with one panel fewer.
-import { fillBin, placeAndSplit, type Free, type GuillotineParams, type Placed } from "./fill";
+import { fillBin, placeAndSplit, type FillParams, type Free, type GuillotineParams, type Placed } from "./fill";
 import { layoutPanel } from "./layout";
 import { randInt } from "./prng";
-import { basicKey, fullSheets, lexLess, type SearchInput, type Solution } from "./search";
+import { basicKey, fullSheets, lexLess, makeOrder, ORDER_COUNT, type SearchInput, type Solution } from "./search";
 
 interface GBin {
   s: number;
@@ -20,8 +20,10 @@ const FIRST_P = Number(ENV.SW_FIRST ?? 0.3);
 const DROP_MAX = Number(ENV.SW_DROP ?? 0.6);
 const KMAX = Number(ENV.SW_K ?? 3);
 const HIST = Number(ENV.SW_HIST ?? 50);
+const REFILL_P = Number(ENV.SW_REFILL ?? 0.3);
+const REFILL_TRIES = Number(ENV.SW_TRIES ?? 3);
 
-export function goalDrivenGuillotine(input: SearchInput, start: Solution, variants: GuillotineParams[], costExp = Number(ENV.SW_EXP ?? 1.2)): Solution {
+export function goalDrivenGuillotine(input: SearchInput, start: Solution, variants: GuillotineParams[], allVariants: FillParams[], costExp = Number(ENV.SW_EXP ?? 1.2)): Solution {
   const { stocks, weight, dims, rng, now, deadline } = input;
   const nT = weight.length;
   const itemVariants = variants.filter((v) => v.driver === "item");
@@ -40,17 +42,18 @@ export function goalDrivenGuillotine(input: SearchInput, start: Solution, varian
   };
 
   // the leftovers of a panel's guillotine decomposition are its free rectangles, whatever filler made it
+  const freeOf = (s: number, placed: Placed[]): Free[] => {
+    const { W, H } = stocks[s].ctx;
+    try {
+      const lay = layoutPanel({ x: 0, y: 0, w: W, h: H }, placed.map((p) => ({ x: p.x, y: p.y, w: p.w, h: p.h })), 0, 0);
+      return lay.leftovers.map((r) => ({ x: r.x, y: r.y, w: r.w, h: r.h }));
+    } catch {
+      return [];
+    }
+  };
   let bins: GBin[] = start.bins.map((b) => {
     const v = b.v.kind === "guillotine" && b.v.driver === "item" ? b.v : itemVariants[0];
-    const { W, H } = stocks[b.s].ctx;
-    let free: Free[] = [];
-    try {
-      const lay = layoutPanel({ x: 0, y: 0, w: W, h: H }, b.placed.map((p) => ({ x: p.x, y: p.y, w: p.w, h: p.h })), 0, 0);
-      free = lay.leftovers.map((r) => ({ x: r.x, y: r.y, w: r.w, h: r.h }));
-    } catch {
-      free = [];
-    }
-    return { s: b.s, counts: b.counts.slice(), placed: b.placed.slice(), load: b.load, v, free };
+    return { s: b.s, counts: b.counts.slice(), placed: b.placed.slice(), load: b.load, v, free: freeOf(b.s, b.placed) };
   });
   const toSolution = (bs: GBin[]): Solution => ({
     bins: bs.filter((b) => b.placed.length > 0).map((b) => ({ s: b.s, counts: b.counts.slice(), placed: b.placed.slice(), load: b.load, v: b.v })),
@@ -98,33 +101,64 @@ export function goalDrivenGuillotine(input: SearchInput, start: Solution, varian
     const k = Math.min(nb, 1 + randInt(rng, KMAX));
     const chosen = new Set<number>();
     while (chosen.size < k) chosen.add(randInt(rng, nb));
-    for (const i of chosen) {
-      const b = bins[i];
-      saved.set(i, b);
-      const drop = 0.1 + DROP_MAX * rng();
-      const kept: number[] = [];
-      const keepCounts = new Int32Array(nT);
-      for (const p of b.placed) {
-        if (rng() >= drop) {
-          kept.push(p.t);
-          keepCounts[p.t]++;
-        } else work[p.t]++;
+    if (rng() < REFILL_P) {
+      // rebuild the chosen panels from scratch: their parts and the pool, best of a few noisy fills
+      for (const i of chosen) {
+        saved.set(i, bins[i]);
+        const b = bins[i];
+        for (let t = 0; t < nT; t++) work[t] += b.counts[t];
       }
-      const v = rng() < 0.8 ? b.v : itemVariants[randInt(rng, itemVariants.length)];
-      let seq = kept;
-      if (rng() < FIRST_P) {
-        // give the biggest pool part a clean spot first
-        let bt = -1;
-        for (let t = 0; t < nT; t++) if (work[t] > 0 && (bt < 0 || cost[t] > cost[bt]) && rng() < 0.7) bt = t;
-        if (bt >= 0) {
-          seq = [bt, ...kept];
-          keepCounts[bt]++;
-          work[bt]--;
+      for (const i of chosen) {
+        const s = bins[i].s;
+        let bestBin: GBin | null = null;
+        for (let a = 0; a < REFILL_TRIES; a++) {
+          const v = allVariants[randInt(rng, allVariants.length)];
+          const order = makeOrder(work, dims, randInt(rng, ORDER_COUNT), rng, 0.2 + 0.6 * rng());
+          const c = work.slice();
+          const placed: Placed[] = [];
+          const free: Free[] = [];
+          const load = fillBin(stocks[s].ctx, c, order, v, weight, placed, free);
+          if (bestBin && load <= bestBin.load) continue;
+          const counts = new Int32Array(nT);
+          for (let t = 0; t < nT; t++) counts[t] = work[t] - c[t];
+          let fr = free;
+          if (v.kind !== "guillotine") fr = freeOf(s, placed);
+          const gv = v.kind === "guillotine" && v.driver === "item" ? v : itemVariants[randInt(rng, itemVariants.length)];
+          bestBin = { s, counts, placed, load, v: gv, free: fr };
         }
+        const nb2 = bestBin!;
+        for (let t = 0; t < nT; t++) work[t] -= nb2.counts[t];
+        bins[i] = nb2;
       }
-      const nbin = replay(b.s, seq, keepCounts, v);
-      for (let t = 0; t < nT; t++) work[t] += keepCounts[t] - nbin.counts[t];
-      bins[i] = nbin;
+    } else {
+    for (const i of chosen) {
+        const b = bins[i];
+        saved.set(i, b);
+        const drop = 0.1 + DROP_MAX * rng();
+        const kept: number[] = [];
+        const keepCounts = new Int32Array(nT);
+        for (const p of b.placed) {
+          if (rng() >= drop) {
+            kept.push(p.t);
+            keepCounts[p.t]++;
+          } else work[p.t]++;
+        }
+        const v = rng() < 0.8 ? b.v : itemVariants[randInt(rng, itemVariants.length)];
+        let seq = kept;
+        if (rng() < FIRST_P) {
+          // give the biggest pool part a clean spot first
+          let bt = -1;
+          for (let t = 0; t < nT; t++) if (work[t] > 0 && (bt < 0 || cost[t] > cost[bt]) && rng() < 0.7) bt = t;
+          if (bt >= 0) {
+            seq = [bt, ...kept];
+            keepCounts[bt]++;
+            work[bt]--;
+          }
+        }
+        const nbin = replay(b.s, seq, keepCounts, v);
+        for (let t = 0; t < nT; t++) work[t] += keepCounts[t] - nbin.counts[t];
+        bins[i] = nbin;
+      }
     }
     // recreate: pool parts by decreasing cost (noisy), each into the snuggest free rectangle of any panel
     const seq: { t: number; key: number }[] = [];

@@ -1,0 +1,14 @@
+import { data } from "react-router";
+import type { Route } from "./+types/catalogue.products.$productId";
+import { requirePermission } from "~/auth.server";
+import { PageHeader } from "~/components/page-header";
+
+// Not built yet (issue 5).
+export function loader(args: Route.LoaderArgs) {
+  requirePermission(args, "catalogue:read");
+  throw data("Not found", { status: 404 });
+}
+
+export default function Page() {
+  return <PageHeader eyebrow="Owner" title="Product">Being built.</PageHeader>;
+}
