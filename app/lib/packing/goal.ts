@@ -20,6 +20,7 @@ const FIRST_P = Number(ENV.SW_FIRST ?? 0.3);
 const DROP_MAX = Number(ENV.SW_DROP ?? 0.6);
 const KMAX = Number(ENV.SW_K ?? 3);
 const HIST = Number(ENV.SW_HIST ?? 50);
+const STALL = Number(ENV.SW_STALL ?? 3000);
 const REFILL_P = Number(ENV.SW_REFILL ?? 0.3);
 const REFILL_TRIES = Number(ENV.SW_TRIES ?? 3);
 
@@ -69,13 +70,13 @@ export function goalDrivenGuillotine(input: SearchInput, start: Solution, varian
     for (let t = 0; t < nT; t++) if (p[t] > 0) c += p[t] * cost[t];
     return c;
   };
-  const dropOne = (): boolean => {
+  const dropOne = (noise = 0): boolean => {
     const anyFull = bins.some((b) => !stocks[b.s].offcut);
     let idx = -1;
     let bestR = Infinity;
     bins.forEach((b, i) => {
       if (anyFull && stocks[b.s].offcut) return;
-      const r = b.load / stocks[b.s].area;
+      const r = (b.load / stocks[b.s].area) * (1 + noise * rng());
       if (r < bestR) {
         bestR = r;
         idx = i;
@@ -91,6 +92,8 @@ export function goalDrivenGuillotine(input: SearchInput, start: Solution, varian
   const histLen = HIST;
   const hist = new Float64Array(histLen).fill(curCost);
   let iter = 0;
+  let lastGain = 0;
+  let bestSinceDrop = curCost;
 
   while (now() < deadline) {
     iter++;
@@ -211,6 +214,20 @@ export function goalDrivenGuillotine(input: SearchInput, start: Solution, varian
       for (const [i, b] of saved) bins[i] = b;
     }
     if (curCost < hist[h]) hist[h] = curCost;
+    if (curCost < bestSinceDrop - 1e-9) {
+      bestSinceDrop = curCost;
+      lastGain = iter;
+    } else if (iter - lastGain > STALL) {
+      // stuck: start again from the best plan, dropping another lightly loaded panel
+      bins = best.bins.map((b) => ({ s: b.s, counts: b.counts.slice(), placed: b.placed.slice(), load: b.load, v: b.v.kind === "guillotine" && b.v.driver === "item" ? b.v : itemVariants[0], free: freeOf(b.s, b.placed) }));
+      pool = new Int32Array(nT);
+      if (!dropOne(0.3)) break;
+      curCost = poolCost(pool);
+      hist.fill(curCost);
+      bestSinceDrop = curCost;
+      lastGain = iter;
+      continue;
+    }
     if (curCost <= 1e-9) {
       const sol = toSolution(bins);
       if (lexLess(basicKey(sol, stocks), basicKey(best, stocks))) best = sol;
@@ -219,6 +236,8 @@ export function goalDrivenGuillotine(input: SearchInput, start: Solution, varian
       if (!dropOne()) break;
       curCost = poolCost(pool);
       hist.fill(curCost);
+      bestSinceDrop = curCost;
+      lastGain = iter;
     }
   }
   const g = (globalThis as { __dbg?: Record<string, unknown> }).__dbg;
