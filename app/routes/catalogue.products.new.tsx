@@ -1,13 +1,13 @@
+import { useActionData } from "react-router";
 import type { Route } from "./+types/catalogue.products.new";
-import { requirePermission } from "~/auth.server";
-import { PageHeader } from "~/components/page-header";
+import { ProductEditor } from "~/components/product-editor";
+import type { ProductResult } from "~/lib/catalogue";
+import { productEditorAction, productEditorLoader } from "~/models/product-editor.server";
 
-// Not built yet (issue 5).
-export function loader(args: Route.LoaderArgs) {
-  requirePermission(args, "catalogue:write");
-  return null;
-}
+export const loader = (args: Route.LoaderArgs) => productEditorLoader(args);
+export const action = (args: Route.ActionArgs) => productEditorAction(args);
 
-export default function Page() {
-  return <PageHeader eyebrow="Owner" title="New product">Being built.</PageHeader>;
+export default function NewProduct({ loaderData }: Route.ComponentProps) {
+  const result = useActionData<typeof action>() as ProductResult | undefined;
+  return <ProductEditor {...loaderData} result={result} />;
 }

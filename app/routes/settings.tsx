@@ -1,13 +1,138 @@
+import { data, Form, useActionData } from "react-router";
 import type { Route } from "./+types/settings";
-import { requirePermission } from "~/auth.server";
+import { hasPermission, requirePermission } from "~/auth.server";
+import { Field, FormAlert, SelectField, SubmitButton } from "~/components/forms";
 import { PageHeader } from "~/components/page-header";
+import { parseForm } from "~/lib/forms";
+import { CURRENCIES } from "~/lib/money";
+import { DISPLAY_UNITS, formatArea, formatSetting, formUnit, SETTINGS_GROUPS, settingsFormValues, settingsSchema, type SettingsValues } from "~/lib/shop-settings";
+import { getShop } from "~/models/shops.server";
+import { updateShopSettings } from "~/models/settings.server";
 
-// Not built yet (issue 5).
-export function loader(args: Route.LoaderArgs) {
-  requirePermission(args, "settings:read");
-  return null;
+export async function loader(args: Route.LoaderArgs) {
+  const user = requirePermission(args, "settings:read");
+  const shop = await getShop(user.shopId);
+  const settings: SettingsValues = shop;
+  return { settings, canWrite: hasPermission(user.role, "settings:write") };
 }
 
-export default function Page() {
-  return <PageHeader eyebrow="Owner" title="Shop settings">Being built.</PageHeader>;
+export async function action(args: Route.ActionArgs) {
+  const user = requirePermission(args, "settings:write");
+  const shop: SettingsValues = await getShop(user.shopId);
+  const form = await args.request.formData();
+  const parsed = parseForm(settingsSchema(formUnit(form, shop.displayUnit), shop), form);
+  const values = Object.fromEntries([...form.keys()].map((k) => [k, String(form.get(k) ?? "")]));
+  if (!parsed.ok) return data({ ok: false as const, errors: parsed.errors, values }, { status: 400 });
+  const { displayUnit, currency, minOffcutAreaMm2, ...lengths } = parsed.data;
+  await updateShopSettings(user.shopId, { displayUnit, currency, minOffcutAreaMm2, ...lengths });
+  return { ok: true as const, errors: {}, values: null };
+}
+
+export default function Settings({ loaderData }: Route.ComponentProps) {
+  const { settings, canWrite } = loaderData;
+  const actionData = useActionData<typeof action>();
+  return (
+    <div className="space-y-8">
+      <PageHeader eyebrow="Owner" title="Shop settings">
+        {canWrite
+          ? "Units, money and the limits of the saw and laser that every plan allows for. Type lengths in the shop's unit, or name one (600 mm, 23 5/8\")."
+          : "Units, money and the limits of the saw and laser that every plan allows for. Only the owner can change them."}
+      </PageHeader>
+      {canWrite ? <SettingsForm settings={settings} actionData={actionData} /> : <SettingsReadOnly settings={settings} />}
+    </div>
+  );
+}
+
+type SettingsResult = { ok: boolean; errors: Record<string, string>; values: Record<string, string> | null };
+
+function SettingsForm({ settings, actionData }: { settings: SettingsValues; actionData: SettingsResult | undefined }) {
+  const errors = actionData?.errors ?? {};
+  // A rejected form comes back exactly as typed; otherwise the stored values, formatted.
+  const values = actionData?.values ?? settingsFormValues(settings);
+  const unitWord = settings.displayUnit === "mm" ? "millimetres" : "inches";
+  return (
+    <Form method="post" noValidate className="space-y-6" key={JSON.stringify(values)}>
+      {actionData?.ok && <FormAlert tone="ok">Settings saved.</FormAlert>}
+      {!actionData?.ok && Object.keys(errors).length > 0 && <FormAlert>Nothing was saved: correct the fields marked below.</FormAlert>}
+
+      <section className="grid gap-4 rounded-lg border border-line bg-card p-5 md:grid-cols-2">
+        <h2 className="text-lg font-semibold md:col-span-2">Units and money</h2>
+        <SelectField label="Lengths are shown in" name="displayUnit" defaultValue={values.displayUnit} error={errors.displayUnit}>
+          {DISPLAY_UNITS.map((u) => (
+            <option key={u.value} value={u.value}>
+              {u.label}
+            </option>
+          ))}
+        </SelectField>
+        <SelectField label="Currency" name="currency" defaultValue={values.currency} error={errors.currency}>
+          {Object.keys(CURRENCIES).map((c) => (
+            <option key={c} value={c}>
+              {c}
+            </option>
+          ))}
+        </SelectField>
+        <p className="text-sm text-muted md:col-span-2">A bare number below is read in the unit chosen here ({unitWord} now).</p>
+      </section>
+
+      {SETTINGS_GROUPS.map((group) => (
+        <section key={group.title} className="grid gap-4 rounded-lg border border-line bg-card p-5 md:grid-cols-2">
+          <div className="md:col-span-2">
+            <h2 className="text-lg font-semibold">{group.title}</h2>
+            <p className="text-sm text-muted">{group.about}</p>
+          </div>
+          {group.lengths.map((f) => (
+            <Field key={f.key} label={f.label} name={f.key} defaultValue={values[f.key]} error={errors[f.key]} hint={f.hint || undefined} inputMode="decimal" autoComplete="off" />
+          ))}
+          {group.area && (
+            <Field
+              label="Area at least"
+              name="minOffcutAreaMm2"
+              defaultValue={values.minOffcutAreaMm2}
+              error={errors.minOffcutAreaMm2}
+              hint={settings.displayUnit === "mm" ? "In mm² (or cm², m²)." : "In in² (or mm², cm²)."}
+              inputMode="decimal"
+              autoComplete="off"
+            />
+          )}
+        </section>
+      ))}
+      <SubmitButton pendingText="Saving…">Save settings</SubmitButton>
+    </Form>
+  );
+}
+
+function SettingsReadOnly({ settings }: { settings: SettingsValues }) {
+  const unit = DISPLAY_UNITS.find((u) => u.value === settings.displayUnit)?.label ?? settings.displayUnit;
+  return (
+    <div className="space-y-6" data-testid="settings-read-only">
+      <FormAlert tone="warn">Read only: these are set by the shop's owner.</FormAlert>
+      <ReadOnlyGroup title="Units and money" rows={[["Lengths are shown in", unit], ["Currency", settings.currency]]} />
+      {SETTINGS_GROUPS.map((group) => (
+        <ReadOnlyGroup
+          key={group.title}
+          title={group.title}
+          rows={[
+            ...group.lengths.map((f): [string, string] => [f.label, formatSetting(settings, f.key)]),
+            ...(group.area ? [["Area at least", formatArea(settings.minOffcutAreaMm2, settings.displayUnit)] as [string, string]] : []),
+          ]}
+        />
+      ))}
+    </div>
+  );
+}
+
+function ReadOnlyGroup({ title, rows }: { title: string; rows: [string, string][] }) {
+  return (
+    <section className="rounded-lg border border-line bg-card p-5">
+      <h2 className="mb-3 text-lg font-semibold">{title}</h2>
+      <dl className="grid gap-x-6 gap-y-3 sm:grid-cols-2">
+        {rows.map(([label, value]) => (
+          <div key={label}>
+            <dt className="text-sm text-muted">{label}</dt>
+            <dd className="font-medium tabular-nums">{value}</dd>
+          </div>
+        ))}
+      </dl>
+    </section>
+  );
 }

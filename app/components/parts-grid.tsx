@@ -1,0 +1,198 @@
+// The bill-of-parts grid. AG Grid owns the rows while people edit (feeding rows back in as props
+// would interrupt the cell being edited); every change is reported up as a fresh copy of all rows.
+import { AgGridReact, type CustomCellRendererProps } from "ag-grid-react";
+import {
+  CellStyleModule,
+  CheckboxEditorModule,
+  ClientSideRowModelApiModule,
+  ClientSideRowModelModule,
+  NumberEditorModule,
+  RenderApiModule,
+  RowApiModule,
+  SelectEditorModule,
+  TextEditorModule,
+  themeQuartz,
+  type CellClassParams,
+  type CellKeyDownEvent,
+  type ColDef,
+  type GridApi,
+} from "ag-grid-community";
+import { useEffect, useMemo, useRef, type RefObject } from "react";
+import { PROCESS_LABELS, PROCESSES, type PartField, type PartRow, type RowErrors } from "~/lib/catalogue";
+import type { DisplayUnit } from "~/lib/units";
+
+// Only what this grid uses: rows in memory, add/remove by transaction, text/number/select/checkbox editors, red cells.
+const MODULES = [
+  ClientSideRowModelModule,
+  ClientSideRowModelApiModule,
+  RowApiModule,
+  RenderApiModule,
+  TextEditorModule,
+  NumberEditorModule,
+  SelectEditorModule,
+  CheckboxEditorModule,
+  CellStyleModule,
+];
+
+// The palette of app/app.css.
+const THEME = themeQuartz.withParams({
+  accentColor: "#b8561d",
+  fontFamily: "IBM Plex Sans",
+  fontSize: 15,
+  backgroundColor: "#fffdf9",
+  foregroundColor: "#1f2329",
+  borderColor: "#ddd5c6",
+  headerBackgroundColor: "#f6f2ea",
+  headerTextColor: "#5d6470",
+  oddRowBackgroundColor: "#fffdf9",
+  rowHoverColor: "#f6e3d4",
+});
+
+const BAD_CELL = { "bg-bad-soft!": isBad, "text-bad!": isBad, "shadow-[inset_0_0_0_2px_var(--color-bad)]": isBad };
+function isBad(params: CellClassParams<PartRow>) {
+  const errors = (params.context as GridContext).errors.current;
+  const field = params.colDef.field as PartField | undefined;
+  return Boolean(params.data && field && errors[params.data.key]?.[field]);
+}
+
+type GridContext = { errors: RefObject<RowErrors>; remove: (row: PartRow) => void };
+
+export function allRows(api: GridApi<PartRow>): PartRow[] {
+  const rows: PartRow[] = [];
+  api.forEachNode((node) => node.data && rows.push({ ...node.data }));
+  return rows;
+}
+
+function RemoveCell({ data, context }: CustomCellRendererProps<PartRow>) {
+  if (!data) return null;
+  return (
+    <button
+      type="button"
+      tabIndex={-1}
+      aria-label={`Remove part ${data.name || "(unnamed)"}`}
+      title="Remove this part (Delete or Enter on this cell)"
+      onClick={() => (context as GridContext).remove(data)}
+      className="h-8 w-8 rounded-md text-lg leading-none text-muted hover:bg-bad-soft hover:text-bad"
+    >
+      ×
+    </button>
+  );
+}
+
+export function PartsGrid({
+  initialRows,
+  materials,
+  unit,
+  errors,
+  readOnly,
+  apiRef,
+  onRowsChange,
+  onCellEdited,
+}: {
+  initialRows: PartRow[];
+  materials: { id: string; name: string }[];
+  unit: DisplayUnit;
+  errors: RowErrors;
+  readOnly: boolean;
+  apiRef: RefObject<GridApi<PartRow> | null>;
+  onRowsChange: (rows: PartRow[]) => void;
+  onCellEdited: (key: string, field: PartField) => void;
+}) {
+  const errorsRef = useRef(errors);
+  errorsRef.current = errors;
+  useEffect(() => {
+    apiRef.current?.refreshCells({ force: true });
+  }, [errors, apiRef]);
+
+  const rowData = useMemo(() => initialRows.map((r) => ({ ...r })), [initialRows]);
+  const context = useMemo<GridContext>(
+    () => ({
+      errors: errorsRef,
+      remove: (row) => {
+        const api = apiRef.current;
+        if (!api) return;
+        const index = api.getRowNode(row.key)?.rowIndex ?? 0;
+        api.applyTransaction({ remove: [row] });
+        onRowsChange(allRows(api));
+        const count = api.getDisplayedRowCount();
+        if (count > 0) api.setFocusedCell(Math.min(index, count - 1), "name");
+        else document.getElementById("add-part")?.focus();
+      },
+    }),
+    [apiRef, onRowsChange],
+  );
+
+  const columns = useMemo<ColDef<PartRow>[]>(() => {
+    const editable = !readOnly;
+    const cols: ColDef<PartRow>[] = [
+      { field: "name", headerName: "Part", editable, flex: 2, minWidth: 150, cellClassRules: BAD_CELL },
+      { field: "length", headerName: `Length (${unit})`, editable, flex: 1, minWidth: 120, cellClassRules: BAD_CELL },
+      { field: "width", headerName: `Width (${unit})`, editable, flex: 1, minWidth: 120, cellClassRules: BAD_CELL },
+      {
+        field: "materialId",
+        headerName: "Material",
+        editable,
+        flex: 2,
+        minWidth: 180,
+        cellEditor: "agSelectCellEditor",
+        cellEditorParams: { values: materials.map((m) => m.id) },
+        refData: Object.fromEntries(materials.map((m) => [m.id, m.name])),
+        cellClassRules: BAD_CELL,
+      },
+      {
+        field: "quantity",
+        headerName: "Qty",
+        editable,
+        width: 90,
+        cellDataType: "number",
+        cellEditor: "agNumberCellEditor",
+        cellEditorParams: { min: 1, max: 999, precision: 0 },
+        cellClassRules: BAD_CELL,
+      },
+      { field: "grainLocked", headerName: "Grain locked", editable, width: 130, cellDataType: "boolean", cellClassRules: BAD_CELL },
+      {
+        field: "process",
+        headerName: "Process",
+        editable,
+        width: 130,
+        cellEditor: "agSelectCellEditor",
+        cellEditorParams: { values: [...PROCESSES] },
+        refData: PROCESS_LABELS,
+        cellClassRules: BAD_CELL,
+      },
+    ];
+    if (!readOnly) cols.push({ colId: "remove", headerName: "", width: 64, cellRenderer: RemoveCell, sortable: false, resizable: false });
+    return cols;
+  }, [materials, unit, readOnly]);
+
+  return (
+    <AgGridReact<PartRow>
+      modules={MODULES}
+      theme={THEME}
+      rowData={rowData}
+      columnDefs={columns}
+      defaultColDef={{ sortable: false, suppressMovable: true }}
+      getRowId={(p) => p.data.key}
+      context={context}
+      domLayout="autoHeight"
+      rowHeight={44}
+      headerHeight={44}
+      singleClickEdit
+      stopEditingWhenCellsLoseFocus
+      enterNavigatesVerticallyAfterEdit
+      suppressNoRowsOverlay
+      onGridReady={(e) => (apiRef.current = e.api)}
+      onCellValueChanged={(e) => {
+        onCellEdited(e.data.key, e.colDef.field as PartField);
+        onRowsChange(allRows(e.api));
+      }}
+      onCellKeyDown={(e: CellKeyDownEvent<PartRow>) => {
+        const key = (e.event as KeyboardEvent | null)?.key;
+        if (e.column.getColId() === "remove" && e.data && (key === "Enter" || key === "Delete" || key === " ")) {
+          (e.event as KeyboardEvent).preventDefault();
+          context.remove(e.data);
+        }
+      }}
+    />
+  );
+}

@@ -1,0 +1,8 @@
+import { eq } from "drizzle-orm";
+import { shops } from "../../db/schema";
+import { getDb } from "~/db.server";
+import type { SettingsValues } from "~/lib/shop-settings";
+
+export async function updateShopSettings(shopId: string, values: SettingsValues): Promise<void> {
+  await getDb().update(shops).set(values).where(eq(shops.id, shopId));
+}
