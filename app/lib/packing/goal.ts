@@ -21,6 +21,7 @@ const DROP_MAX = Number(ENV.SW_DROP ?? 0.6);
 const KMAX = Number(ENV.SW_K ?? 3);
 const HIST = Number(ENV.SW_HIST ?? 50);
 const STALL = Number(ENV.SW_STALL ?? 3000);
+const SHORT_P = Number(ENV.SW_SHORT ?? 0);
 const REFILL_P = Number(ENV.SW_REFILL ?? 0.3);
 const REFILL_TRIES = Number(ENV.SW_TRIES ?? 3);
 
@@ -39,15 +40,19 @@ export function goalDrivenGuillotine(input: SearchInput, start: Solution, varian
     const load = fillBin(stocks[s].ctx, c, seq, v, weight, placed, free);
     const counts = new Int32Array(nT);
     for (let t = 0; t < nT; t++) counts[t] = pool[t] - c[t];
-    return { s, counts, placed, load, v, free };
+    return { s, counts, placed, load, v, free: usable(free) };
   };
 
+  // free rectangles no part fits in are dropped: insertion scans fewer
+  let minSide = Infinity;
+  for (let t = 0; t < nT; t++) minSide = Math.min(minSide, dims[t].l, dims[t].w);
+  const usable = (fr: Free[]): Free[] => (fr.some((r) => r.w < minSide || r.h < minSide) ? fr.filter((r) => r.w >= minSide && r.h >= minSide) : fr);
   // the leftovers of a panel's guillotine decomposition are its free rectangles, whatever filler made it
   const freeOf = (s: number, placed: Placed[]): Free[] => {
     const { W, H } = stocks[s].ctx;
     try {
       const lay = layoutPanel({ x: 0, y: 0, w: W, h: H }, placed.map((p) => ({ x: p.x, y: p.y, w: p.w, h: p.h })), 0, 0);
-      return lay.leftovers.map((r) => ({ x: r.x, y: r.y, w: r.w, h: r.h }));
+      return usable(lay.leftovers.map((r) => ({ x: r.x, y: r.y, w: r.w, h: r.h })));
     } catch {
       return [];
     }
@@ -127,7 +132,7 @@ export function goalDrivenGuillotine(input: SearchInput, start: Solution, varian
           let fr = free;
           if (v.kind !== "guillotine") fr = freeOf(s, placed);
           const gv = v.kind === "guillotine" && v.driver === "item" ? v : itemVariants[randInt(rng, itemVariants.length)];
-          bestBin = { s, counts, placed, load, v: gv, free: fr };
+          bestBin = { s, counts, placed, load, v: gv, free: usable(fr) };
         }
         const nb2 = bestBin!;
         for (let t = 0; t < nT; t++) work[t] -= nb2.counts[t];
@@ -167,20 +172,23 @@ export function goalDrivenGuillotine(input: SearchInput, start: Solution, varian
     const seq: { t: number; key: number }[] = [];
     for (let t = 0; t < nT; t++) for (let c = 0; c < work[t]; c++) seq.push({ t, key: cost[t] * (1 + 0.3 * (rng() - 0.5)) });
     seq.sort((a, b) => b.key - a.key);
+    const useShort = rng() < SHORT_P;
     for (const { t } of seq) {
       if (rng() < 0.03) continue; // blink: leave it for a later round
       let bi = -1;
       let fi = -1;
       let bo = null as null | { w: number; h: number; rot: boolean };
       let bs = Infinity;
+      const itemArea = dims[t].l * dims[t].w;
       for (let i = 0; i < bins.length; i++) {
         const b = bins[i];
         const os = stocks[b.s].ctx.orients[t];
         for (let f = 0; f < b.free.length; f++) {
           const r = b.free[f];
+          if (r.w * r.h < itemArea) continue;
           for (const o of os) {
             if (o.w <= r.w && o.h <= r.h) {
-              const sc = r.w * r.h - o.w * o.h;
+              const sc = useShort ? Math.min(r.w - o.w, r.h - o.h) * 1e7 + Math.max(r.w - o.w, r.h - o.h) : r.w * r.h - o.w * o.h;
               if (sc < bs) {
                 bs = sc;
                 bi = i;
@@ -199,6 +207,7 @@ export function goalDrivenGuillotine(input: SearchInput, start: Solution, varian
       }
       const b = bins[bi];
       const r = placeAndSplit(b.free, fi, bo, b.v.split);
+      b.free = usable(b.free);
       b.placed.push({ t, x: r.x, y: r.y, w: bo.w, h: bo.h, rot: bo.rot });
       b.counts[t]++;
       b.load += weight[t];
