@@ -29,3 +29,31 @@ export function passwordResetEmail(input: { name: string; link: string }) {
     ].join("\n"),
   };
 }
+
+export function orderConfirmationEmail(input: {
+  shopName: string;
+  customerName: string;
+  orderNumber: number;
+  eventDate: string;
+  dueDate: string;
+  lines: { name: string; quantity: number; total: string }[];
+  total: string;
+}) {
+  const width = Math.max(...input.lines.map((l) => `${l.quantity} × ${l.name}`.length), 10);
+  return {
+    subject: `Your order #${input.orderNumber} with ${input.shopName} is confirmed`,
+    text: [
+      `Dear ${input.customerName},`,
+      "",
+      `thank you: ${input.shopName} has confirmed your order #${input.orderNumber}.`,
+      "",
+      ...input.lines.map((l) => `  ${`${l.quantity} × ${l.name}`.padEnd(width)}  ${l.total}`),
+      `  ${"Total".padEnd(width)}  ${input.total}`,
+      "",
+      `Event date: ${input.eventDate}`,
+      `Ready by:   ${input.dueDate}`,
+      "",
+      "Reply to this e-mail if anything needs to change.",
+    ].join("\n"),
+  };
+}

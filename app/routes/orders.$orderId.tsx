@@ -1,14 +1,256 @@
-import { data } from "react-router";
+import * as v from "valibot";
+import { data, Form, Link, redirect } from "react-router";
 import type { Route } from "./+types/orders.$orderId";
 import { requirePermission } from "~/auth.server";
+import { Field, FormAlert, SelectField, SubmitButton } from "~/components/forms";
+import { OrderLineFields } from "~/components/order-line-fields";
 import { PageHeader } from "~/components/page-header";
+import { StatusBadge } from "~/components/status-badge";
+import { formatDate } from "~/lib/dates";
+import { parseForm } from "~/lib/forms";
+import { formatMoney } from "~/lib/money";
+import { checkLines, rawLinesFrom } from "~/lib/order-lines";
+import { OrderHeaderSchema } from "~/lib/order-schema";
+import { linesEditable, nextStatuses, ORDER_STATUSES, STATUS_LABELS } from "~/lib/order-status";
+import { can } from "~/lib/permissions";
+import { sendConfirmation } from "~/models/confirmation.server";
+import { customerChoices } from "~/models/customers.server";
+import { readOrderForm, withStoredArtwork } from "~/models/order-input.server";
+import { addLines, getOrder, moveOrder, OrderStateError, productChoices, removeLine, updateHeader } from "~/models/orders.server";
+import { getShop } from "~/models/shops.server";
+import { deleteStoredFiles } from "~/storage.server";
 
-// Not built yet (issue 5).
-export function loader(args: Route.LoaderArgs) {
-  requirePermission(args, "orders:read");
-  throw data("Not found", { status: 404 });
+const Uuid = v.pipe(v.string(), v.uuid());
+
+export async function loader(args: Route.LoaderArgs) {
+  const user = requirePermission(args, "orders:read");
+  const order = v.is(Uuid, args.params.orderId) ? await getOrder(user.shopId, args.params.orderId) : null;
+  if (!order) throw data("No such order in this shop.", { status: 404 });
+  const canWrite = can(user.role, "orders:write");
+  const [shop, products, customers] = await Promise.all([
+    getShop(user.shopId),
+    canWrite ? productChoices(user.shopId) : [],
+    canWrite ? customerChoices(user.shopId) : [],
+  ]);
+  return { order, currency: shop.currency, canWrite, products, customers };
 }
 
-export default function Page() {
-  return <PageHeader eyebrow="Owner" title="Order">Being built.</PageHeader>;
+const ActionSchema = v.variant("intent", [
+  v.object({ intent: v.literal("move"), to: v.picklist(ORDER_STATUSES, "Unknown status.") }),
+  v.object({ intent: v.literal("resend") }),
+  v.object({ intent: v.literal("add-lines") }),
+  v.object({ intent: v.literal("remove-line"), lineId: Uuid }),
+  v.object({ intent: v.literal("header") }),
+], "Unknown action.");
+
+export async function action(args: Route.ActionArgs) {
+  const user = requirePermission(args, "orders:write");
+  const orderId = args.params.orderId;
+  if (!v.is(Uuid, orderId)) throw data("No such order in this shop.", { status: 404 });
+  const { fields, entries } = await readOrderForm(args.request);
+  const parsed = parseForm(ActionSchema, fields);
+  if (!parsed.ok) return data({ errors: parsed.errors, values: fields, intent: fields.intent }, { status: 400 });
+  const input = parsed.data;
+  const fail = (message: string, status = 409) => data({ errors: { form: message } as Record<string, string>, values: fields, intent: input.intent }, { status });
+  const notFound = () => data("No such order in this shop.", { status: 404 });
+
+  try {
+    switch (input.intent) {
+      case "move": {
+        const before = await moveOrder(user.shopId, orderId, input.to);
+        if (before === null) throw notFound();
+        if (input.to === "confirmed") await sendConfirmation(user.shopId, orderId);
+        break;
+      }
+      case "resend": {
+        const order = await getOrder(user.shopId, orderId);
+        if (!order) throw notFound();
+        if (order.status === "draft" || order.status === "cancelled") return fail("Only a confirmed order has a confirmation to send.");
+        if (order.confirmationSentAt) return fail("The confirmation was already sent.");
+        await sendConfirmation(user.shopId, orderId);
+        break;
+      }
+      case "add-lines": {
+        const products = await productChoices(user.shopId);
+        const lines = checkLines(rawLinesFrom(entries), new Set(products.map((p) => p.id)));
+        if (!lines.ok) return data({ errors: lines.errors, values: fields, intent: input.intent }, { status: 400 });
+        if (lines.lines.length === 0) return data({ errors: { "line-0-product": "Choose a product." } as Record<string, string>, values: fields, intent: input.intent }, { status: 400 });
+        const found = await withStoredArtwork(lines.lines, (newLines) => addLines(user.shopId, orderId, newLines));
+        if (!found) throw notFound();
+        break;
+      }
+      case "remove-line": {
+        const keys = await removeLine(user.shopId, orderId, input.lineId);
+        if (keys === null) throw notFound();
+        await deleteStoredFiles(keys);
+        break;
+      }
+      case "header": {
+        const header = parseForm(OrderHeaderSchema, fields);
+        if (!header.ok) return data({ errors: header.errors, values: fields, intent: input.intent }, { status: 400 });
+        const current = await getOrder(user.shopId, orderId);
+        if (!current) throw notFound();
+        const found = await updateHeader(user.shopId, orderId, { ...header.data, dueDate: header.data.dueDate || current.dueDate });
+        if (!found) throw notFound();
+        break;
+      }
+    }
+  } catch (error) {
+    if (error instanceof OrderStateError) return fail(error.message);
+    throw error;
+  }
+  return redirect(`/orders/${orderId}`);
+}
+
+const MOVE_LABELS: Partial<Record<string, string>> = {
+  confirmed: "Confirm and e-mail the customer",
+  in_production: "Start production",
+  ready: "Mark ready",
+  delivered: "Mark delivered",
+  cancelled: "Cancel order",
+};
+
+export default function OrderPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { order, currency, canWrite, products, customers } = loaderData;
+  const errors: Record<string, string> = actionData?.errors ?? {};
+  const editable = canWrite && linesEditable(order.status);
+  return (
+    <div className="space-y-6">
+      <div className="flex flex-wrap items-start justify-between gap-4">
+        <PageHeader eyebrow={`Order · ${order.customerName}`} title={`Order #${order.number}`}>
+          Event {formatDate(order.eventDate)} · due {formatDate(order.dueDate)}
+        </PageHeader>
+        <div className="text-right">
+          <StatusBadge status={order.status} />
+          <p className="mt-2 text-2xl font-semibold tabular-nums">{formatMoney(order.totalMinor, currency)}</p>
+        </div>
+      </div>
+
+      {errors.form && <FormAlert>{errors.form}</FormAlert>}
+
+      {order.status !== "draft" && order.confirmedAt && (
+        <div className="rounded-lg border border-line bg-card p-4" data-testid="confirmation">
+          {order.confirmationSentAt ? (
+            <p className="text-ok">
+              Confirmation e-mailed to {order.customerEmail} on {new Date(order.confirmationSentAt).toUTCString()}.
+            </p>
+          ) : (
+            <div className="flex flex-wrap items-center justify-between gap-3">
+              <p className="font-medium text-bad">{order.confirmationError ?? "The confirmation e-mail has not gone out yet."}</p>
+              {canWrite && (
+                <Form method="post" encType="multipart/form-data">
+                  <input type="hidden" name="intent" value="resend" />
+                  <SubmitButton pendingText="Sending…">Send the confirmation again</SubmitButton>
+                </Form>
+              )}
+            </div>
+          )}
+        </div>
+      )}
+
+      {canWrite && nextStatuses(order.status).length > 0 && (
+        <div className="flex flex-wrap gap-2">
+          {nextStatuses(order.status).map((to) => (
+            <Form key={to} method="post" encType="multipart/form-data">
+              <input type="hidden" name="intent" value="move" />
+              <input type="hidden" name="to" value={to} />
+              <button type="submit" className={to === "cancelled" ? "min-h-11 rounded-md border border-bad/40 px-4 font-medium text-bad hover:bg-bad-soft" : "min-h-11 rounded-md bg-edge px-4 font-semibold text-white hover:bg-edge-dark"}>
+                {MOVE_LABELS[to] ?? STATUS_LABELS[to]}
+              </button>
+            </Form>
+          ))}
+        </div>
+      )}
+
+      <section className="space-y-3">
+        <h2 className="text-xl font-semibold">Lines</h2>
+        {order.lines.length === 0 && <p className="text-muted">No lines yet.</p>}
+        <ul className="space-y-3">
+          {order.lines.map((line) => (
+            <li key={line.id} className="space-y-2 rounded-lg border border-line bg-card p-4" data-line-id={line.id}>
+              <div className="flex flex-wrap items-baseline justify-between gap-2">
+                <p className="font-semibold">
+                  {line.quantity} × {line.productName}
+                </p>
+                <p className="tabular-nums text-muted">
+                  {formatMoney(line.unitPriceMinor, currency)} each · <span className="font-semibold text-ink">{formatMoney(line.quantity * line.unitPriceMinor, currency)}</span>
+                </p>
+              </div>
+              {line.personalisation.length > 0 && (
+                <details>
+                  <summary className="cursor-pointer text-sm font-medium">
+                    {line.personalisation.length} personalisation text{line.personalisation.length === 1 ? "" : "s"}: {line.personalisation.slice(0, 3).join(", ")}
+                    {line.personalisation.length > 3 ? ", …" : ""}
+                  </summary>
+                  <ol className="mt-2 grid list-decimal gap-x-8 pl-6 text-sm sm:grid-cols-2 lg:grid-cols-3">
+                    {line.personalisation.map((text, i) => (
+                      <li key={i}>{text}</li>
+                    ))}
+                  </ol>
+                </details>
+              )}
+              {line.notes && <p className="text-sm text-muted">{line.notes}</p>}
+              {line.files.length > 0 && (
+                <ul className="flex flex-wrap gap-2 text-sm">
+                  {line.files.map((f) => (
+                    <li key={f.id}>
+                      <a href={`/orders/${order.id}/files/${f.id}`} className="inline-flex items-center gap-1 rounded-md border border-line bg-white px-3 py-1.5 hover:border-edge" download>
+                        {f.fileName} <span className="text-muted">({Math.max(1, Math.round(f.sizeBytes / 1024))} KB)</span>
+                      </a>
+                    </li>
+                  ))}
+                </ul>
+              )}
+              {editable && (
+                <Form method="post" encType="multipart/form-data">
+                  <input type="hidden" name="intent" value="remove-line" />
+                  <input type="hidden" name="lineId" value={line.id} />
+                  <button type="submit" className="text-sm font-medium text-bad underline">
+                    Remove line
+                  </button>
+                </Form>
+              )}
+            </li>
+          ))}
+        </ul>
+      </section>
+
+      {editable && (
+        <section className="space-y-3">
+          <h2 className="text-xl font-semibold">Add a line</h2>
+          <Form method="post" encType="multipart/form-data" className="space-y-3" noValidate>
+            <input type="hidden" name="intent" value="add-lines" />
+            <OrderLineFields index={0} products={products} currency={currency} errors={actionData?.intent === "add-lines" ? errors : {}} values={actionData?.intent === "add-lines" ? actionData.values : undefined} />
+            <SubmitButton pendingText="Adding…">Add line</SubmitButton>
+          </Form>
+        </section>
+      )}
+
+      {canWrite && order.status !== "delivered" && order.status !== "cancelled" && (
+        <details className="rounded-lg border border-line bg-card p-4" open={actionData?.intent === "header"}>
+          <summary className="cursor-pointer font-semibold">Change customer, dates or notes</summary>
+          <Form method="post" encType="multipart/form-data" className="mt-4 grid gap-4 md:grid-cols-3" noValidate>
+            <input type="hidden" name="intent" value="header" />
+            <SelectField label="Customer" name="customerId" defaultValue={order.customerId} error={errors.customerId} className="md:col-span-3">
+              {customers.map((c) => (
+                <option key={c.id} value={c.id}>
+                  {c.name}
+                </option>
+              ))}
+            </SelectField>
+            <Field label="Event date" name="eventDate" type="date" defaultValue={order.eventDate} error={errors.eventDate} />
+            <Field label="Due date" name="dueDate" type="date" defaultValue={order.dueDate} error={errors.dueDate} />
+            <Field label="Notes" name="notes" defaultValue={order.notes} error={errors.notes} />
+            <SubmitButton className="md:col-span-3 md:w-fit">Save changes</SubmitButton>
+          </Form>
+        </details>
+      )}
+
+      <p>
+        <Link to="/orders" className="text-edge underline">
+          ← All orders
+        </Link>
+      </p>
+    </div>
+  );
 }

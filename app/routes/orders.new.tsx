@@ -1,13 +1,95 @@
+import { useState } from "react";
+import { data, Form, Link, redirect } from "react-router";
 import type { Route } from "./+types/orders.new";
 import { requirePermission } from "~/auth.server";
+import { Field, FormAlert, SelectField, SubmitButton } from "~/components/forms";
+import { OrderLineFields } from "~/components/order-line-fields";
 import { PageHeader } from "~/components/page-header";
+import { defaultDueDate } from "~/lib/dates";
+import { parseForm } from "~/lib/forms";
+import { checkLines, rawLinesFrom } from "~/lib/order-lines";
+import { OrderHeaderSchema } from "~/lib/order-schema";
+import { customerChoices } from "~/models/customers.server";
+import { readOrderForm, withStoredArtwork } from "~/models/order-input.server";
+import { createOrder, OrderStateError, productChoices } from "~/models/orders.server";
+import { getShop } from "~/models/shops.server";
 
-// Not built yet (issue 5).
-export function loader(args: Route.LoaderArgs) {
-  requirePermission(args, "orders:write");
-  return null;
+export async function loader(args: Route.LoaderArgs) {
+  const user = requirePermission(args, "orders:write");
+  const [customers, products, shop] = await Promise.all([customerChoices(user.shopId), productChoices(user.shopId), getShop(user.shopId)]);
+  const customerId = new URL(args.request.url).searchParams.get("customer") ?? "";
+  return { customers, products, currency: shop.currency, customerId };
 }
 
-export default function Page() {
-  return <PageHeader eyebrow="Owner" title="New order">Being built.</PageHeader>;
+export async function action(args: Route.ActionArgs) {
+  const user = requirePermission(args, "orders:write");
+  const { fields, entries } = await readOrderForm(args.request);
+  const products = await productChoices(user.shopId);
+  const header = parseForm(OrderHeaderSchema, fields);
+  const lines = checkLines(rawLinesFrom(entries), new Set(products.map((p) => p.id)));
+  const errors = { ...(header.ok ? {} : header.errors), ...(lines.ok ? {} : lines.errors) };
+  if (lines.ok && lines.lines.length === 0) errors.lines = "Add at least one line: a product and its quantity.";
+  if (!header.ok || !lines.ok || Object.keys(errors).length) return data({ errors, values: fields }, { status: 400 });
+
+  const leadTimes = lines.lines.map((l) => products.find((p) => p.id === l.productId)?.leadTimeDays ?? null);
+  const dueDate = header.data.dueDate || defaultDueDate(header.data.eventDate, leadTimes);
+  try {
+    const order = await withStoredArtwork(lines.lines, (newLines) => createOrder(user.shopId, { ...header.data, dueDate }, newLines));
+    return redirect(`/orders/${order.id}`);
+  } catch (error) {
+    if (error instanceof OrderStateError) return data({ errors: { form: error.message }, values: fields }, { status: 400 });
+    throw error;
+  }
+}
+
+export default function NewOrder({ loaderData, actionData }: Route.ComponentProps) {
+  const { customers, products, currency, customerId } = loaderData;
+  const errors: Record<string, string> = actionData?.errors ?? {};
+  const values = actionData?.values;
+  const submittedLines = values ? Math.max(1, ...Object.keys(values).map((k) => /^line-(\d+)-/.exec(k)).filter(Boolean).map((m) => Number(m![1]) + 1)) : 1;
+  const [lines, setLines] = useState(() => Array.from({ length: submittedLines }, (_, i) => i));
+
+  return (
+    <div className="space-y-6">
+      <PageHeader eyebrow="Owner" title="New order">
+        Who it is for, when their event is, and what they ordered.
+      </PageHeader>
+      {Object.keys(errors).length > 0 && (
+        <FormAlert>
+          {errors.form ?? errors.lines ?? "Some fields need another look; they are marked below."} Files you chose must be chosen again.
+        </FormAlert>
+      )}
+      {customers.length === 0 ? (
+        <FormAlert tone="warn">
+          Add a customer first: <Link to="/customers/new" className="underline">new customer</Link>.
+        </FormAlert>
+      ) : (
+        <Form method="post" encType="multipart/form-data" className="space-y-6" noValidate>
+          <div className="grid gap-4 rounded-lg border border-line bg-card p-4 md:grid-cols-3">
+            <SelectField label="Customer" name="customerId" defaultValue={values?.customerId ?? customerId} error={errors.customerId} className="md:col-span-3">
+              <option value="">Choose…</option>
+              {customers.map((c) => (
+                <option key={c.id} value={c.id}>
+                  {c.name}
+                  {c.email ? ` (${c.email})` : ""}
+                </option>
+              ))}
+            </SelectField>
+            <Field label="Event date" name="eventDate" type="date" required defaultValue={values?.eventDate} error={errors.eventDate} />
+            <Field label="Due date" name="dueDate" type="date" defaultValue={values?.dueDate} error={errors.dueDate} hint="Empty: the longest lead time of the products before the event." />
+            <Field label="Notes" name="notes" defaultValue={values?.notes} error={errors.notes} />
+          </div>
+          {lines.map((i) => (
+            <OrderLineFields key={i} index={i} products={products} currency={currency} errors={errors} values={values} onRemove={lines.length > 1 ? () => setLines(lines.filter((l) => l !== i)) : undefined} />
+          ))}
+          <div className="flex flex-wrap gap-3">
+            <button type="button" onClick={() => setLines([...lines, Math.max(...lines) + 1])} className="min-h-11 rounded-md border border-line bg-white px-4 font-medium hover:border-edge">
+              Add another line
+            </button>
+            <SubmitButton pendingText="Saving…">Save order</SubmitButton>
+          </div>
+        </Form>
+      )}
+    </div>
+  );
 }

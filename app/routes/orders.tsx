@@ -1,13 +1,74 @@
+import { Link, useSearchParams } from "react-router";
+import useSWR from "swr";
 import type { Route } from "./+types/orders";
 import { requirePermission } from "~/auth.server";
+import { ListSearch, ListTable, type Column } from "~/components/list-table";
 import { PageHeader } from "~/components/page-header";
+import { StatusBadge } from "~/components/status-badge";
+import { formatDate } from "~/lib/dates";
+import type { ListQuery } from "~/lib/listing";
+import { formatMoney } from "~/lib/money";
+import { ORDER_STATUSES, STATUS_LABELS } from "~/lib/order-status";
+import { can } from "~/lib/permissions";
+import { listOrders, orderListQuery, type OrderListRow, type OrderSort } from "~/models/orders.server";
+import { getShop } from "~/models/shops.server";
 
-// Not built yet (issue 5).
-export function loader(args: Route.LoaderArgs) {
-  requirePermission(args, "orders:read");
-  return null;
+// The first page comes from the loader (usable before scripts run); swr then keeps it fresh from /api/orders.
+export async function loader(args: Route.LoaderArgs) {
+  const user = requirePermission(args, "orders:read");
+  const query = orderListQuery(args.request);
+  const [{ rows, total }, shop] = await Promise.all([listOrders(user.shopId, query), getShop(user.shopId)]);
+  return { page: { rows, total, query }, currency: shop.currency, canWrite: can(user.role, "orders:write") };
 }
 
-export default function Page() {
-  return <PageHeader eyebrow="Owner" title="Orders">Being built.</PageHeader>;
+type Page = { rows: OrderListRow[]; total: number; query: ListQuery<OrderSort> };
+const fetchJson = async (url: string): Promise<Page> => {
+  const res = await fetch(url, { headers: { Accept: "application/json" } });
+  if (!res.ok) throw new Error(`The order list could not be loaded (${res.status}).`);
+  return res.json();
+};
+
+export default function Orders({ loaderData }: Route.ComponentProps) {
+  const [params] = useSearchParams();
+  const { data: page, error } = useSWR(`/api/orders?${params}`, fetchJson, { fallbackData: loaderData.page, refreshInterval: 30_000, revalidateOnMount: true });
+  const { currency, canWrite } = loaderData;
+  const columns: Column<OrderListRow>[] = [
+    { key: "number", label: "Order", sortable: true, cell: (o) => <Link to={`/orders/${o.id}`} className="font-semibold text-edge hover:underline">#{o.number}</Link> },
+    { key: "customer", label: "Customer", sortable: true, cell: (o) => o.customer },
+    { key: "event", label: "Event", sortable: true, cell: (o) => formatDate(o.eventDate) },
+    { key: "due", label: "Due", sortable: true, cell: (o) => formatDate(o.dueDate) },
+    { key: "status", label: "Status", sortable: true, cell: (o) => <StatusBadge status={o.status} /> },
+    { key: "items", label: "Items", align: "right", cell: (o) => o.items },
+    { key: "total", label: "Total", sortable: true, align: "right", cell: (o) => formatMoney(o.totalMinor, currency) },
+  ];
+  const current = page ?? loaderData.page;
+  return (
+    <div className="space-y-6">
+      <div className="flex flex-wrap items-end justify-between gap-4">
+        <PageHeader eyebrow="Owner" title="Orders">
+          Who ordered what, for which event, and when it must leave the shop.
+        </PageHeader>
+        {canWrite && (
+          <Link to="/orders/new" className="rounded-md bg-edge px-4 py-2.5 font-semibold text-white hover:bg-edge-dark">
+            New order
+          </Link>
+        )}
+      </div>
+      <ListSearch label="Search by customer or order number" placeholder="e.g. Ardent or 1001">
+        <label className="space-y-1 text-sm font-medium">
+          <span className="block">Status</span>
+          <select name="status" defaultValue={params.get("status") ?? ""} className="block min-h-11 rounded-md border border-line bg-white px-3">
+            <option value="">Any</option>
+            {ORDER_STATUSES.map((s) => (
+              <option key={s} value={s}>
+                {STATUS_LABELS[s]}
+              </option>
+            ))}
+          </select>
+        </label>
+      </ListSearch>
+      {error && <p className="text-sm text-bad">{error.message} Showing the last list loaded.</p>}
+      <ListTable rows={current.rows} columns={columns} total={current.total} page={current.query.page} size={current.query.size} sort={current.query.sort} dir={current.query.dir} empty="No orders match." />
+    </div>
+  );
 }

@@ -3,9 +3,11 @@
 import { eq } from "drizzle-orm";
 import request from "supertest";
 import { describe, expect, it } from "vitest";
-import { invitations, users } from "../../db/schema";
+import { customers, invitations, orders, users } from "../../db/schema";
 import { appServer } from "../support/app";
 import { createShop, signIn } from "../support/factories";
+import { createCatalogue } from "../support/order-factories";
+import { createOrder } from "~/models/orders.server";
 import { getDb } from "~/db.server";
 
 const server = await appServer();
@@ -41,5 +43,24 @@ describe("another shop's ids", () => {
     const res = await request(server).get("/team").set("Cookie", owner);
     expect(res.text).toContain(mine.users.sawyer.email);
     expect(res.text).not.toContain(theirs.users.sawyer.email);
+  });
+
+  it("orders and customers: another shop's order, its files and its customer answer 404, and stay unchanged", async () => {
+    const cat = await createCatalogue(theirs.id);
+    const order = await createOrder(theirs.id, { customerId: cat.customer.id, eventDate: "2027-05-01", dueDate: "2027-04-20", notes: "" }, [
+      { productId: cat.sign.id, quantity: 1, personalisation: ["Theirs"], notes: "", files: [] },
+    ]);
+    expect((await request(server).get(`/orders/${order.id}`).set("Cookie", owner)).status).toBe(404);
+    expect((await request(server).post(`/orders/${order.id}`).set("Cookie", owner).field("intent", "move").field("to", "confirmed")).status).toBe(404);
+    expect((await request(server).post(`/orders/${order.id}`).set("Cookie", owner).field("intent", "add-lines").field("line-0-product", cat.sign.id).field("line-0-quantity", "1")).status).toBe(400); // their product is not in my catalogue
+    expect((await request(server).get(`/orders/${order.id}/files/${order.id}`).set("Cookie", owner)).status).toBe(404);
+    expect((await request(server).get(`/customers/${cat.customer.id}`).set("Cookie", owner)).status).toBe(404);
+    expect((await request(server).post(`/customers/${cat.customer.id}`).set("Cookie", owner).type("form").send({ name: "Mine now" })).status).toBe(404);
+    const [row] = await getDb().select().from(orders).where(eq(orders.id, order.id));
+    expect(row.status).toBe("draft");
+    const [customer] = await getDb().select().from(customers).where(eq(customers.id, cat.customer.id));
+    expect(customer.name).toBe("Ardent–Vasquez wedding");
+    const list = await request(server).get("/api/orders").set("Cookie", owner);
+    expect(list.body.rows.map((r: { id: string }) => r.id)).not.toContain(order.id);
   });
 });

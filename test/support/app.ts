@@ -9,3 +9,8 @@ export async function appServer(): Promise<Server> {
   const build = await import(/* @vite-ignore */ buildPath);
   return createServer(createRequestListener({ build, mode: "production" }));
 }
+
+/** Server-rendered HTML without React's text separators (`<!-- -->`), for looking for a sentence in it. */
+export function visible(html: string): string {
+  return html.replace(/<!-- -->/g, "");
+}

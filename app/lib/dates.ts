@@ -1,0 +1,33 @@
+// Calendar dates (event and due dates) are ISO "YYYY-MM-DD" strings: no time of day, no time zone.
+
+const ISO_DATE = /^(\d{4})-(\d{2})-(\d{2})$/;
+
+export function isIsoDate(value: string): boolean {
+  const match = ISO_DATE.exec(value);
+  if (!match) return false;
+  const date = new Date(Date.UTC(+match[1], +match[2] - 1, +match[3]));
+  return date.toISOString().slice(0, 10) === value;
+}
+
+export function addDays(isoDate: string, days: number): string {
+  const date = new Date(`${isoDate}T00:00:00Z`);
+  date.setUTCDate(date.getUTCDate() + days);
+  return date.toISOString().slice(0, 10);
+}
+
+export function todayIso(now = new Date()): string {
+  return now.toISOString().slice(0, 10);
+}
+
+const LONG = new Intl.DateTimeFormat("en-GB", { weekday: "short", day: "numeric", month: "short", year: "numeric", timeZone: "UTC" });
+
+/** "Sat 16 Jan 2027" */
+export function formatDate(isoDate: string): string {
+  return LONG.format(new Date(`${isoDate}T00:00:00Z`));
+}
+
+/** Default due date: the longest lead time of the ordered products before the event (14 days when none says). */
+export function defaultDueDate(eventDate: string, leadTimesDays: (number | null)[]): string {
+  const known = leadTimesDays.filter((d): d is number => d !== null);
+  return addDays(eventDate, -(known.length ? Math.max(...known) : 14));
+}

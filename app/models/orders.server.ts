@@ -1,0 +1,246 @@
+import { and, asc, count, desc, eq, ilike, inArray, or, sql } from "drizzle-orm";
+import { customers, lineFiles, orderLines, orders, products, shops } from "../../db/schema";
+import { getDb } from "~/db.server";
+import { likePattern, parseListQuery, type ListQuery } from "~/lib/listing";
+import { canMoveTo, linesEditable, ORDER_STATUSES, type OrderStatus } from "~/lib/order-status";
+
+export const ORDER_SORTS = ["number", "customer", "event", "due", "status", "total"] as const;
+export type OrderSort = (typeof ORDER_SORTS)[number];
+export const ORDER_FILTERS = { status: ORDER_STATUSES } as const;
+
+export class OrderStateError extends Error {}
+
+/** The list query of an orders address: soonest due first unless asked otherwise. */
+export function orderListQuery(request: Request): ListQuery<OrderSort> {
+  return parseListQuery(new URL(request.url).searchParams, { sorts: ORDER_SORTS, defaultSort: "due", defaultDir: "asc", filters: ORDER_FILTERS });
+}
+
+const lineTotal = sql<number>`coalesce((select sum(${orderLines.quantity}::bigint * ${orderLines.unitPriceMinor}) from ${orderLines} where ${orderLines.orderId} = ${orders.id}), 0)::bigint`;
+const itemCount = sql<number>`coalesce((select sum(${orderLines.quantity}) from ${orderLines} where ${orderLines.orderId} = ${orders.id}), 0)::int`;
+
+export type OrderListRow = {
+  id: string;
+  number: number;
+  customer: string;
+  eventDate: string;
+  dueDate: string;
+  status: OrderStatus;
+  items: number;
+  totalMinor: number;
+};
+
+/** One page of the shop's orders, sorted and filtered in PostgreSQL (the shop's 10,000 orders never reach Node). */
+export async function listOrders(shopId: string, query: ListQuery<OrderSort>): Promise<{ rows: OrderListRow[]; total: number }> {
+  const db = getDb();
+  const q = query.q.replace(/^#/, "");
+  const where = and(
+    eq(orders.shopId, shopId),
+    query.filters.status ? eq(orders.status, query.filters.status as OrderStatus) : undefined,
+    q ? or(ilike(customers.name, likePattern(q)), /^\d+$/.test(q) ? eq(orders.number, Number(q)) : undefined) : undefined,
+  );
+  const sortColumn = { number: orders.number, customer: customers.name, event: orders.eventDate, due: orders.dueDate, status: orders.status, total: lineTotal }[query.sort];
+  const [rows, [{ total }]] = await Promise.all([
+    db
+      .select({
+        id: orders.id,
+        number: orders.number,
+        customer: customers.name,
+        eventDate: orders.eventDate,
+        dueDate: orders.dueDate,
+        status: orders.status,
+        items: itemCount,
+        totalMinor: lineTotal,
+      })
+      .from(orders)
+      .innerJoin(customers, eq(customers.id, orders.customerId))
+      .where(where)
+      .orderBy(query.dir === "asc" ? asc(sortColumn) : desc(sortColumn), desc(orders.number))
+      .limit(query.size)
+      .offset((query.page - 1) * query.size),
+    db.select({ total: count() }).from(orders).innerJoin(customers, eq(customers.id, orders.customerId)).where(where),
+  ]);
+  return { rows: rows.map((r) => ({ ...r, totalMinor: Number(r.totalMinor) })), total };
+}
+
+export async function ordersOfCustomer(shopId: string, customerId: string) {
+  return getDb()
+    .select({ id: orders.id, number: orders.number, eventDate: orders.eventDate, status: orders.status, totalMinor: lineTotal })
+    .from(orders)
+    .where(and(eq(orders.shopId, shopId), eq(orders.customerId, customerId)))
+    .orderBy(desc(orders.eventDate));
+}
+
+/** The order with its customer, lines and files, or null when it is not this shop's. */
+export async function getOrder(shopId: string, orderId: string) {
+  const db = getDb();
+  const [order] = await db
+    .select({
+      id: orders.id,
+      number: orders.number,
+      status: orders.status,
+      eventDate: orders.eventDate,
+      dueDate: orders.dueDate,
+      notes: orders.notes,
+      confirmedAt: orders.confirmedAt,
+      confirmationSentAt: orders.confirmationSentAt,
+      confirmationError: orders.confirmationError,
+      customerId: customers.id,
+      customerName: customers.name,
+      customerEmail: customers.email,
+    })
+    .from(orders)
+    .innerJoin(customers, eq(customers.id, orders.customerId))
+    .where(and(eq(orders.id, orderId), eq(orders.shopId, shopId)));
+  if (!order) return null;
+  const lines = await db
+    .select({
+      id: orderLines.id,
+      productId: orderLines.productId,
+      productName: products.name,
+      quantity: orderLines.quantity,
+      unitPriceMinor: orderLines.unitPriceMinor,
+      personalisation: orderLines.personalisation,
+      notes: orderLines.notes,
+    })
+    .from(orderLines)
+    .innerJoin(products, eq(products.id, orderLines.productId))
+    .where(eq(orderLines.orderId, order.id))
+    .orderBy(asc(products.name), asc(orderLines.id));
+  const files = lines.length
+    ? await db
+        .select({ id: lineFiles.id, orderLineId: lineFiles.orderLineId, fileName: lineFiles.fileName, contentType: lineFiles.contentType, sizeBytes: lineFiles.sizeBytes })
+        .from(lineFiles)
+        .where(and(eq(lineFiles.shopId, shopId), inArray(lineFiles.orderLineId, lines.map((l) => l.id))))
+        .orderBy(asc(lineFiles.createdAt))
+    : [];
+  const withFiles = lines.map((line) => ({ ...line, files: files.filter((f) => f.orderLineId === line.id) }));
+  const totalMinor = lines.reduce((sum, l) => sum + l.quantity * l.unitPriceMinor, 0);
+  return { ...order, lines: withFiles, totalMinor };
+}
+
+export type OrderDetail = NonNullable<Awaited<ReturnType<typeof getOrder>>>;
+
+/** The shop's products that an order line may name, with the price a new line takes. */
+export async function productChoices(shopId: string) {
+  return getDb()
+    .select({ id: products.id, name: products.name, priceMinor: products.priceMinor, leadTimeDays: products.leadTimeDays })
+    .from(products)
+    .where(eq(products.shopId, shopId))
+    .orderBy(asc(products.name));
+}
+
+export type NewLine = { productId: string; quantity: number; personalisation: string[]; notes: string; files: { fileName: string; contentType: string; sizeBytes: number; storageKey: string }[] };
+export type OrderHeader = { customerId: string; eventDate: string; dueDate: string; notes: string };
+
+/**
+ * Writes an order and all its lines and file records in one transaction; the shop row is locked so
+ * two orders made at once get consecutive numbers. Prices are the products' current prices.
+ */
+export async function createOrder(shopId: string, header: OrderHeader, lines: NewLine[]): Promise<{ id: string; number: number }> {
+  return getDb().transaction(async (tx) => {
+    await tx.select({ id: shops.id }).from(shops).where(eq(shops.id, shopId)).for("update");
+    const [customer] = await tx.select({ id: customers.id }).from(customers).where(and(eq(customers.id, header.customerId), eq(customers.shopId, shopId)));
+    if (!customer) throw new OrderStateError("That customer is not in this shop.");
+    const [{ next }] = await tx.select({ next: sql<number>`coalesce(max(${orders.number}), 1000) + 1` }).from(orders).where(eq(orders.shopId, shopId));
+    const [order] = await tx.insert(orders).values({ shopId, number: next, ...header }).returning({ id: orders.id, number: orders.number });
+    await insertLines(tx, shopId, order.id, lines);
+    return order;
+  });
+}
+
+type Tx = Parameters<Parameters<ReturnType<typeof getDb>["transaction"]>[0]>[0];
+
+async function insertLines(tx: Tx, shopId: string, orderId: string, lines: NewLine[]) {
+  if (lines.length === 0) return;
+  const ids = [...new Set(lines.map((l) => l.productId))];
+  const prices = await tx.select({ id: products.id, priceMinor: products.priceMinor }).from(products).where(and(eq(products.shopId, shopId), inArray(products.id, ids)));
+  const priceOf = new Map(prices.map((p) => [p.id, p.priceMinor]));
+  for (const line of lines) {
+    const price = priceOf.get(line.productId);
+    if (price === undefined) throw new OrderStateError("A product on this order is not in this shop's catalogue.");
+    const [row] = await tx
+      .insert(orderLines)
+      .values({ orderId, productId: line.productId, quantity: line.quantity, unitPriceMinor: price, personalisation: line.personalisation, notes: line.notes })
+      .returning({ id: orderLines.id });
+    if (line.files.length) await tx.insert(lineFiles).values(line.files.map((f) => ({ ...f, shopId, orderLineId: row.id })));
+  }
+}
+
+async function lockOrder(tx: Tx, shopId: string, orderId: string) {
+  const [order] = await tx.select({ id: orders.id, status: orders.status }).from(orders).where(and(eq(orders.id, orderId), eq(orders.shopId, shopId))).for("update");
+  return order ?? null;
+}
+
+/** Adds lines to an order whose lines may still change; false when the order is not this shop's. */
+export async function addLines(shopId: string, orderId: string, lines: NewLine[]): Promise<boolean> {
+  return getDb().transaction(async (tx) => {
+    const order = await lockOrder(tx, shopId, orderId);
+    if (!order) return false;
+    if (!linesEditable(order.status)) throw new OrderStateError("This order is in production; its lines can no longer change.");
+    await insertLines(tx, shopId, order.id, lines);
+    return true;
+  });
+}
+
+/** Removes a line (and returns its stored file keys so the caller can delete the bytes). Null: not found. */
+export async function removeLine(shopId: string, orderId: string, lineId: string): Promise<string[] | null> {
+  return getDb().transaction(async (tx) => {
+    const order = await lockOrder(tx, shopId, orderId);
+    if (!order) return null;
+    if (!linesEditable(order.status)) throw new OrderStateError("This order is in production; its lines can no longer change.");
+    const files = await tx.select({ key: lineFiles.storageKey }).from(lineFiles).where(and(eq(lineFiles.orderLineId, lineId), eq(lineFiles.shopId, shopId)));
+    const removed = await tx.delete(orderLines).where(and(eq(orderLines.id, lineId), eq(orderLines.orderId, order.id))).returning({ id: orderLines.id });
+    return removed.length ? files.map((f) => f.key) : null;
+  });
+}
+
+export async function updateHeader(shopId: string, orderId: string, header: OrderHeader): Promise<boolean> {
+  return getDb().transaction(async (tx) => {
+    const order = await lockOrder(tx, shopId, orderId);
+    if (!order) return false;
+    if (order.status === "delivered" || order.status === "cancelled") throw new OrderStateError(`A ${order.status} order no longer changes.`);
+    const [customer] = await tx.select({ id: customers.id }).from(customers).where(and(eq(customers.id, header.customerId), eq(customers.shopId, shopId)));
+    if (!customer) throw new OrderStateError("That customer is not in this shop.");
+    await tx.update(orders).set(header).where(eq(orders.id, order.id));
+    return true;
+  });
+}
+
+/**
+ * Moves an order on. Confirming happens once: a second "confirm" (a double click, a retry) finds the
+ * order already confirmed and changes nothing. Returns the status before, or null when not found.
+ */
+export async function moveOrder(shopId: string, orderId: string, to: OrderStatus): Promise<OrderStatus | null> {
+  return getDb().transaction(async (tx) => {
+    const order = await lockOrder(tx, shopId, orderId);
+    if (!order) return null;
+    if (!canMoveTo(order.status, to)) throw new OrderStateError(`A ${order.status.replace("_", " ")} order cannot become ${to.replace("_", " ")}.`);
+    if (to === "confirmed") {
+      const [{ lines }] = await tx.select({ lines: count() }).from(orderLines).where(eq(orderLines.orderId, order.id));
+      if (lines === 0) throw new OrderStateError("An order needs at least one line before it is confirmed.");
+    }
+    await tx
+      .update(orders)
+      .set({ status: to, ...(to === "confirmed" ? { confirmedAt: new Date(), confirmationSentAt: null, confirmationError: null } : {}) })
+      .where(eq(orders.id, order.id));
+    return order.status;
+  });
+}
+
+export async function recordConfirmation(orderId: string, outcome: { sentAt: Date } | { error: string }) {
+  await getDb()
+    .update(orders)
+    .set("sentAt" in outcome ? { confirmationSentAt: outcome.sentAt, confirmationError: null } : { confirmationError: outcome.error })
+    .where(eq(orders.id, orderId));
+}
+
+/** A file of one of this shop's orders, for download; null when the ids do not belong together here. */
+export async function getLineFile(shopId: string, orderId: string, fileId: string) {
+  const [row] = await getDb()
+    .select({ fileName: lineFiles.fileName, contentType: lineFiles.contentType, storageKey: lineFiles.storageKey })
+    .from(lineFiles)
+    .innerJoin(orderLines, eq(orderLines.id, lineFiles.orderLineId))
+    .innerJoin(orders, eq(orders.id, orderLines.orderId))
+    .where(and(eq(lineFiles.id, fileId), eq(lineFiles.shopId, shopId), eq(orders.id, orderId), eq(orders.shopId, shopId)));
+  return row ?? null;
+}

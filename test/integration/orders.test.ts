@@ -1,0 +1,375 @@
+import { count, eq } from "drizzle-orm";
+import { readdirSync, readFileSync } from "node:fs";
+import { join } from "node:path";
+import request from "supertest";
+import { beforeAll, describe, expect, it } from "vitest";
+import { customers, lineFiles, orderLines, orders } from "../../db/schema";
+import { appServer, visible } from "../support/app";
+import { createShop, signIn, type TestShop } from "../support/factories";
+import { createCatalogue } from "../support/order-factories";
+import { mailTo, waitForMail } from "../support/outbox";
+import { getDb } from "~/db.server";
+import { createOrder } from "~/models/orders.server";
+
+const server = await appServer();
+const fixture = (name: string) => readFileSync(new URL(`../fixtures/${name}`, import.meta.url));
+const PNG = Buffer.from("89504e470d0a1a0a0000000d4948445200000001000000010806000000", "hex");
+const SVG = Buffer.from('<?xml version="1.0"?>\n<svg xmlns="http://www.w3.org/2000/svg" width="10" height="10"><rect width="10" height="10"/></svg>');
+
+function uploadedFiles(): string[] {
+  const root = join(process.env.STOPWISE_DATA!, "uploads");
+  try {
+    return readdirSync(root, { recursive: true, withFileTypes: true }).filter((d) => d.isFile()).map((d) => d.name);
+  } catch {
+    return [];
+  }
+}
+
+let shop: TestShop;
+let catalogue: Awaited<ReturnType<typeof createCatalogue>>;
+let owner: string;
+
+beforeAll(async () => {
+  shop = await createShop("Orders");
+  catalogue = await createCatalogue(shop.id);
+  owner = await signIn(server, shop.users.owner);
+});
+
+const orderCount = async () => (await getDb().select({ n: count() }).from(orders).where(eq(orders.shopId, shop.id)))[0].n;
+const newOrder = () => request(server).post("/orders/new").set("Cookie", owner);
+
+describe("customers", () => {
+  it("creates, finds by search, and edits a customer; bad fields are named and kept", async () => {
+    const bad = await request(server).post("/customers/new").set("Cookie", owner).type("form").send({ name: "", email: "nope", phone: "call me" });
+    expect(bad.status).toBe(400);
+    for (const f of ["name", "email", "phone"]) expect(bad.text).toContain(`field-${f}-error`);
+    expect(bad.text).toContain('value="call me"');
+
+    const made = await request(server).post("/customers/new").set("Cookie", owner).type("form").send({ name: "Brindle & Bean café", email: "hello@brindle.example", phone: "+44 20 7946 0018", notes: "Menus" });
+    expect(made.status).toBe(302);
+    const id = made.headers.location.split("/").pop()!;
+    const found = await request(server).get("/customers?q=brindle").set("Cookie", owner);
+    expect(found.text).toContain("Brindle &amp; Bean café");
+    const none = await request(server).get("/customers?q=zzzz-nobody").set("Cookie", owner);
+    expect(none.text).toContain('No customer matches');
+
+    const edited = await request(server).post(`/customers/${id}`).set("Cookie", owner).type("form").send({ name: "Brindle and Bean", email: "", phone: "", notes: "" });
+    expect(edited.status).toBe(302);
+    const [row] = await getDb().select().from(customers).where(eq(customers.id, id));
+    expect(row.name).toBe("Brindle and Bean");
+  });
+
+  it("a bookkeeper reads customers but cannot change them", async () => {
+    const bookkeeper = await signIn(server, shop.users.bookkeeper);
+    expect((await request(server).get(`/customers/${catalogue.customer.id}`).set("Cookie", bookkeeper)).status).toBe(200);
+    expect((await request(server).post(`/customers/${catalogue.customer.id}`).set("Cookie", bookkeeper).type("form").send({ name: "X" })).status).toBe(403);
+    expect((await request(server).post("/customers/new").set("Cookie", bookkeeper).type("form").send({ name: "X" })).status).toBe(403);
+  });
+});
+
+describe("creating orders", () => {
+  it("saves an order with typed personalisation; the due date defaults to the longest lead time before the event", async () => {
+    const res = await newOrder()
+      .field("customerId", catalogue.customer.id)
+      .field("eventDate", "2027-01-16")
+      .field("line-0-product", catalogue.tableNumber.id)
+      .field("line-0-quantity", "3")
+      .field("line-0-texts", "Table 1\nTable 2\n\nTable 3\n")
+      .field("line-1-product", catalogue.sign.id)
+      .field("line-1-quantity", "1");
+    expect(res.status).toBe(302);
+    const [order] = await getDb().select().from(orders).where(eq(orders.id, res.headers.location.split("/").pop()!));
+    expect(order.dueDate).toBe("2027-01-02"); // 14 days (welcome sign) before 16 January
+    expect(order.status).toBe("draft");
+    const lines = await getDb().select().from(orderLines).where(eq(orderLines.orderId, order.id));
+    expect(lines.map((l) => l.personalisation).sort()).toEqual([[], ["Table 1", "Table 2", "Table 3"]]);
+    const page = await request(server).get(`/orders/${order.id}`).set("Cookie", owner);
+    expect(page.text).toContain("€104.50"); // 3 × €6.50 + €85.00 (test shops keep the default currency, EUR)
+  });
+
+  it("reads a guest list CSV with a byte-order mark, semicolons and blank lines, from the chosen column, quantity following the rows", async () => {
+    const res = await newOrder()
+      .field("customerId", catalogue.customer.id)
+      .field("eventDate", "2027-01-16")
+      .field("line-0-product", catalogue.placeCard.id)
+      .field("line-0-followRows", "on")
+      .field("line-0-csvHeader", "guest")
+      .attach("line-0-csv", fixture("guests-bom-semicolon.csv"), { filename: "guests.csv", contentType: "text/csv" });
+    expect(res.status).toBe(302);
+    const [line] = await getDb().select().from(orderLines).where(eq(orderLines.orderId, res.headers.location.split("/").pop()!));
+    expect(line.personalisation).toEqual(["Zoë Ardent", "Nguyễn Thảo", "Mateo Duarte"]);
+    expect(line.quantity).toBe(3);
+  });
+
+  it("names a header that is not in the file, listing the ones that are", async () => {
+    const res = await newOrder()
+      .field("customerId", catalogue.customer.id)
+      .field("eventDate", "2027-01-16")
+      .field("line-0-product", catalogue.placeCard.id)
+      .field("line-0-followRows", "on")
+      .field("line-0-csvHeader", "Name")
+      .attach("line-0-csv", fixture("guests-bom-semicolon.csv"), { filename: "guests.csv" });
+    expect(res.status).toBe(400);
+    expect(res.text).toContain("line-0-csvHeader-error");
+    expect(res.text).toContain("No column is headed &quot;Name&quot;");
+  });
+
+  it("refuses 2,001 rows, and saves nothing", async () => {
+    const before = await orderCount();
+    const csv = ["Guest", ...Array.from({ length: 2001 }, (_, i) => `Guest ${i + 1}`)].join("\n");
+    const res = await newOrder()
+      .field("customerId", catalogue.customer.id)
+      .field("eventDate", "2027-01-16")
+      .field("line-0-product", catalogue.placeCard.id)
+      .field("line-0-followRows", "on")
+      .attach("line-0-csv", Buffer.from(csv), { filename: "big.csv" });
+    expect(res.status).toBe(400);
+    expect(res.text).toContain("line-0-csv-error");
+    expect(res.text).toContain("2,001 texts");
+    expect(await orderCount()).toBe(before);
+  });
+
+  it("takes exactly 2,000 rows", async () => {
+    const csv = ["Guest", ...Array.from({ length: 2000 }, (_, i) => `Guest ${i + 1}`)].join("\r\n");
+    const res = await newOrder()
+      .field("customerId", catalogue.customer.id)
+      .field("eventDate", "2027-01-16")
+      .field("line-0-product", catalogue.placeCard.id)
+      .field("line-0-followRows", "on")
+      .attach("line-0-csv", Buffer.from(csv), { filename: "max.csv" });
+    expect(res.status).toBe(302);
+  });
+
+  it("refuses a binary file renamed .csv", async () => {
+    const before = await orderCount();
+    const res = await newOrder()
+      .field("customerId", catalogue.customer.id)
+      .field("eventDate", "2027-01-16")
+      .field("line-0-product", catalogue.placeCard.id)
+      .field("line-0-followRows", "on")
+      .attach("line-0-csv", PNG, { filename: "guests.csv", contentType: "text/csv" });
+    expect(res.status).toBe(400);
+    expect(res.text).toContain("is not a text CSV file in UTF-8");
+    expect(await orderCount()).toBe(before);
+  });
+
+  it("names every bad field at once and keeps what was typed", async () => {
+    const res = await newOrder()
+      .field("customerId", "")
+      .field("eventDate", "16/01/2027")
+      .field("notes", "Barn venue")
+      .field("line-0-product", catalogue.tableNumber.id)
+      .field("line-0-quantity", "two")
+      .field("line-1-product", "")
+      .field("line-1-quantity", "4")
+      .field("line-2-product", catalogue.tableNumber.id)
+      .field("line-2-quantity", "3")
+      .field("line-2-texts", "Table 1\nTable 2");
+    expect(res.status).toBe(400);
+    for (const f of ["customerId", "eventDate", "line-0-quantity", "line-1-product", "line-2-quantity"]) expect(res.text).toContain(`${f.startsWith("line") ? f : `field-${f}`}-error`);
+    expect(res.text).toContain("3 items but 2 personalisation texts");
+    expect(res.text).toContain('value="Barn venue"');
+  });
+
+  it("refuses a due date after the event", async () => {
+    const res = await newOrder().field("customerId", catalogue.customer.id).field("eventDate", "2027-01-16").field("dueDate", "2027-01-20").field("line-0-product", catalogue.sign.id).field("line-0-quantity", "1");
+    expect(res.status).toBe(400);
+    expect(res.text).toContain("field-dueDate-error");
+  });
+});
+
+describe("artwork", () => {
+  it("stores SVG and PNG by content outside the web root, lists them, and serves them to the shop only, as attachments", async () => {
+    const res = await newOrder()
+      .field("customerId", catalogue.customer.id)
+      .field("eventDate", "2027-02-01")
+      .field("line-0-product", catalogue.sign.id)
+      .field("line-0-quantity", "1")
+      .attach("line-0-files", SVG, { filename: "../../etc/logo.svg", contentType: "image/svg+xml" })
+      .attach("line-0-files", PNG, { filename: "photo.png", contentType: "application/octet-stream" });
+    expect(res.status).toBe(302);
+    const orderId = res.headers.location.split("/").pop()!;
+    const [line] = await getDb().select().from(orderLines).where(eq(orderLines.orderId, orderId));
+    const files = await getDb().select().from(lineFiles).where(eq(lineFiles.orderLineId, line.id));
+    expect(files.map((f) => [f.fileName, f.contentType]).sort()).toEqual([["logo.svg", "image/svg+xml"], ["photo.png", "image/png"]]);
+
+    const svg = files.find((f) => f.fileName === "logo.svg")!;
+    const download = await request(server).get(`/orders/${orderId}/files/${svg.id}`).set("Cookie", owner).buffer(true).parse((r, cb) => {
+      const chunks: Buffer[] = [];
+      r.on("data", (c: Buffer) => chunks.push(c));
+      r.on("end", () => cb(null, Buffer.concat(chunks)));
+    });
+    expect(download.status).toBe(200);
+    expect(Buffer.compare(download.body as Buffer, SVG)).toBe(0);
+    expect(download.headers["content-disposition"]).toMatch(/^attachment; filename="logo.svg"/);
+    expect(download.headers["content-security-policy"]).toContain("sandbox");
+
+    expect((await request(server).get(`/orders/${orderId}/files/${svg.id}`)).status).toBe(302);
+    const other = await createShop("Other");
+    const stranger = await signIn(server, other.users.owner);
+    expect((await request(server).get(`/orders/${orderId}/files/${svg.id}`).set("Cookie", stranger)).status).toBe(404);
+  });
+
+  it("refuses a text file named .png, naming the field, and keeps no file", async () => {
+    const before = uploadedFiles().length;
+    const res = await newOrder()
+      .field("customerId", catalogue.customer.id)
+      .field("eventDate", "2027-02-01")
+      .field("line-0-product", catalogue.sign.id)
+      .field("line-0-quantity", "1")
+      .attach("line-0-files", Buffer.from("just some text"), { filename: "logo.png", contentType: "image/png" });
+    expect(res.status).toBe(400);
+    expect(res.text).toContain("line-0-files-error");
+    expect(res.text).toContain("is not an SVG, PNG or PDF file");
+    expect(uploadedFiles().length).toBe(before);
+  });
+
+  it("refuses artwork over 10 MB", async () => {
+    const big = Buffer.concat([PNG, Buffer.alloc(10 * 1024 * 1024)]);
+    const res = await newOrder()
+      .field("customerId", catalogue.customer.id)
+      .field("eventDate", "2027-02-01")
+      .field("line-0-product", catalogue.sign.id)
+      .field("line-0-quantity", "1")
+      .attach("line-0-files", big, { filename: "huge.png" });
+    expect(res.status).toBe(400);
+    expect(res.text).toContain("larger than 10 MB");
+  });
+
+  it("a save that fails in the database after the files were stored leaves no orphan files or rows", async () => {
+    const other = await createShop("Elsewhere");
+    const strangerCustomer = (await createCatalogue(other.id)).customer;
+    const before = { files: uploadedFiles().length, orders: await orderCount() };
+    const res = await newOrder()
+      .field("customerId", strangerCustomer.id) // another shop's customer: refused inside the transaction
+      .field("eventDate", "2027-02-01")
+      .field("line-0-product", catalogue.sign.id)
+      .field("line-0-quantity", "1")
+      .attach("line-0-files", PNG, { filename: "logo.png" });
+    expect(res.status).toBe(400);
+    expect(res.text).toContain("That customer is not in this shop");
+    expect(uploadedFiles().length).toBe(before.files);
+    expect(await orderCount()).toBe(before.orders);
+  });
+});
+
+describe("confirming", () => {
+  async function draftOrder(customerId = catalogue.customer.id) {
+    return createOrder(shop.id, { customerId, eventDate: "2027-01-16", dueDate: "2027-01-02", notes: "" }, [
+      { productId: catalogue.tableNumber.id, quantity: 18, personalisation: [], notes: "", files: [] },
+      { productId: catalogue.sign.id, quantity: 1, personalisation: [], notes: "", files: [] },
+    ]);
+  }
+  const move = (orderId: string, to: string, cookie = owner) => request(server).post(`/orders/${orderId}`).set("Cookie", cookie).field("intent", "move").field("to", to);
+
+  it("e-mails the customer the items, dates and total once, and shows that it was sent; a second confirm changes nothing", async () => {
+    const order = await draftOrder();
+    const seen = mailTo(catalogue.customer.email).length;
+    expect((await move(order.id, "confirmed")).status).toBe(302);
+    const mail = await waitForMail(catalogue.customer.email, seen);
+    expect(mail.subject).toBe(`Your order #${order.number} with ${shop.name} is confirmed`);
+    expect(mail.text).toContain("18 × Table number");
+    expect(mail.text).toContain("€117.00"); // 18 × €6.50
+    expect(mail.text).toMatch(/Total\s+€202\.00/); // + €85.00
+    expect(mail.text).toContain("Event date: Sat, 16 Jan 2027");
+    expect(mail.text).toContain("Ready by:   Sat, 2 Jan 2027");
+    const page = await request(server).get(`/orders/${order.id}`).set("Cookie", owner);
+    expect(visible(page.text)).toContain(`Confirmation e-mailed to ${catalogue.customer.email}`);
+
+    const again = await move(order.id, "confirmed");
+    expect(again.status).toBe(409);
+    expect(again.text).toContain("cannot become confirmed");
+    await new Promise((r) => setTimeout(r, 300));
+    expect(mailTo(catalogue.customer.email).length).toBe(seen + 1);
+  });
+
+  it("shows a failed send and sends it on retry without confirming twice", async () => {
+    const [noEmail] = await getDb().insert(customers).values({ shopId: shop.id, name: "Nursery, no e-mail yet", email: "" }).returning();
+    const order = await draftOrder(noEmail.id);
+    await move(order.id, "confirmed");
+    const page = await request(server).get(`/orders/${order.id}`).set("Cookie", owner);
+    expect(page.text).toContain("The customer has no e-mail address");
+    expect(page.text).toContain("Send the confirmation again");
+
+    const address = `nursery-${Math.random().toString(36).slice(2)}@example.com`;
+    await getDb().update(customers).set({ email: address }).where(eq(customers.id, noEmail.id));
+    const [{ confirmedAt }] = await getDb().select({ confirmedAt: orders.confirmedAt }).from(orders).where(eq(orders.id, order.id));
+    expect((await request(server).post(`/orders/${order.id}`).set("Cookie", owner).field("intent", "resend")).status).toBe(302);
+    await waitForMail(address);
+    const [after] = await getDb().select().from(orders).where(eq(orders.id, order.id));
+    expect(after.confirmationSentAt).not.toBeNull();
+    expect(after.confirmationError).toBeNull();
+    expect(after.confirmedAt).toEqual(confirmedAt);
+    const resendAgain = await request(server).post(`/orders/${order.id}`).set("Cookie", owner).field("intent", "resend");
+    expect(resendAgain.status).toBe(409);
+  });
+
+  it("moves through production to delivery, and refuses a jump", async () => {
+    const order = await draftOrder();
+    expect((await move(order.id, "ready")).status).toBe(409);
+    for (const to of ["confirmed", "in_production", "ready", "delivered"]) expect((await move(order.id, to)).status).toBe(302);
+    const [row] = await getDb().select().from(orders).where(eq(orders.id, order.id));
+    expect(row.status).toBe("delivered");
+    const late = await request(server).post(`/orders/${order.id}`).set("Cookie", owner).field("intent", "add-lines").field("line-0-product", catalogue.sign.id).field("line-0-quantity", "1");
+    expect(late.status).toBe(409);
+  });
+
+  it("a sawyer cannot edit orders; a bookkeeper reads them but cannot confirm", async () => {
+    const order = await draftOrder();
+    const sawyer = await signIn(server, shop.users.sawyer);
+    const bookkeeper = await signIn(server, shop.users.bookkeeper);
+    expect((await request(server).get(`/orders/${order.id}`).set("Cookie", sawyer)).status).toBe(403);
+    expect((await move(order.id, "confirmed", sawyer)).status).toBe(403);
+    expect((await request(server).get(`/orders/${order.id}`).set("Cookie", bookkeeper)).status).toBe(200);
+    expect((await move(order.id, "confirmed", bookkeeper)).status).toBe(403);
+    const [row] = await getDb().select().from(orders).where(eq(orders.id, order.id));
+    expect(row.status).toBe("draft");
+  });
+});
+
+describe("editing lines", () => {
+  it("adds a line with artwork and removes it again, deleting its stored file", async () => {
+    const order = await createOrder(shop.id, { customerId: catalogue.customer.id, eventDate: "2027-03-01", dueDate: "2027-02-20", notes: "" }, [
+      { productId: catalogue.sign.id, quantity: 1, personalisation: [], notes: "", files: [] },
+    ]);
+    const before = uploadedFiles().length;
+    const added = await request(server).post(`/orders/${order.id}`).set("Cookie", owner).field("intent", "add-lines").field("line-0-product", catalogue.tableNumber.id).field("line-0-quantity", "2").attach("line-0-files", PNG, { filename: "n.png" });
+    expect(added.status).toBe(302);
+    expect(uploadedFiles().length).toBe(before + 1);
+    const lines = await getDb().select().from(orderLines).where(eq(orderLines.orderId, order.id));
+    const line = lines.find((l) => l.productId === catalogue.tableNumber.id)!;
+    const removed = await request(server).post(`/orders/${order.id}`).set("Cookie", owner).field("intent", "remove-line").field("lineId", line.id);
+    expect(removed.status).toBe(302);
+    expect(uploadedFiles().length).toBe(before);
+  });
+});
+
+describe("the order list", () => {
+  it("sorts, filters and pages on the server, as JSON for the client and as HTML before scripts", async () => {
+    const busy = await createShop("Busy");
+    const cat = await createCatalogue(busy.id);
+    for (let i = 0; i < 30; i++) {
+      await createOrder(busy.id, { customerId: cat.customer.id, eventDate: `2027-04-${String((i % 28) + 1).padStart(2, "0")}`, dueDate: "2027-03-01", notes: "" }, [
+        { productId: cat.tableNumber.id, quantity: i + 1, personalisation: [], notes: "", files: [] },
+      ]);
+    }
+    const cookie = await signIn(server, busy.users.bookkeeper);
+    const page2 = await request(server).get("/api/orders?size=25&page=2&sort=total&dir=desc").set("Cookie", cookie);
+    expect(page2.status).toBe(200);
+    expect(page2.body.total).toBe(30);
+    expect(page2.body.rows).toHaveLength(5);
+    expect(page2.body.rows.map((r: { totalMinor: number }) => r.totalMinor)).toEqual([5, 4, 3, 2, 1].map((q) => q * 650));
+
+    const byNumber = await request(server).get(`/api/orders?q=${1001 + 7}`).set("Cookie", cookie);
+    expect(byNumber.body.rows.map((r: { number: number }) => r.number)).toEqual([1008]);
+    const drafts = await request(server).get("/api/orders?status=confirmed").set("Cookie", cookie);
+    expect(drafts.body.total).toBe(0);
+    const junk = await request(server).get("/api/orders?sort=;drop table orders&size=9999&page=-3").set("Cookie", cookie);
+    expect(junk.status).toBe(200);
+    expect(junk.body.query).toMatchObject({ sort: "due", size: 25, page: 1 });
+
+    const html = await request(server).get("/orders?sort=number&dir=asc").set("Cookie", cookie);
+    expect(visible(html.text)).toContain("#1001<");
+    expect(html.text).toContain("1–25 of 30");
+  });
+});
