@@ -215,7 +215,7 @@ function shopJobs(): { name: string; job: Job }[] {
     [180, 120, false], [240, 60, true], [330, 95, false], [560, 280, false], [90, 55, true],
     [410, 410, true], [620, 150, false], [275, 175, false], [130, 130, true], [950, 450, false],
   ];
-  const qty = [40, 60, 120, 200, 150, 80, 70, 60, 50, 20, 30, 16, 110, 40, 160, 100, 120, 60, 30, 180, 24, 40, 90, 46, 4];
+  const qty = [40, 60, 120, 200, 150, 80, 70, 60, 50, 20, 30, 16, 110, 40, 160, 100, 120, 60, 30, 280, 24, 40, 90, 46, 4];
   sizes.forEach(([l, w, r], i) => big.push({ id: `p${String(i + 1).padStart(2, "0")}`, length: l, width: w, quantity: qty[i], rotate: r }));
   const jobs: { name: string; job: Job }[] = [];
   const base = { kerf: 3.2, trim: 10, minOffcut: { shortSide: 100, area: 60_000 }, limits: { ripMax: 650, sledWidthMax: 700, stopMin: 20, stopMax: 1250 } };

@@ -9,6 +9,9 @@ function fail(line: string, code = 2): never {
   process.exit(code);
 }
 
+// a closed pipe (bin/pack job.json | head) is not an error worth a stack trace
+process.stdout.on("error", (e: NodeJS.ErrnoException) => process.exit(e.code === "EPIPE" ? 0 : 1));
+
 function main() {
   const args = process.argv.slice(2);
   if (args.length > 1) fail("usage: bin/pack [FILE]");

@@ -268,7 +268,8 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
   let best = cands[0];
   for (const c of cands) if (lexLess(basicKey(c, prep.slots), basicKey(best, prep.slots))) best = c;
   // improvement: leave a little time to lay out and check the plan
-  const improveEnd = t0 + budget * 0.92;
+  const nParts = prep.demand.reduce((a, b) => a + b, 0);
+  const improveEnd = t0 + budget * 0.92 - Math.min(budget * 0.3, nParts * 0.06);
   const improved =
     job.stages === 0
       ? goalDrivenGuillotine({ ...input, deadline: improveEnd }, best, variants as GuillotineParams[], buildVariants)
@@ -287,6 +288,7 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
   );
   const built: Built[] = [];
   for (const { sol } of eligible.slice(0, job.objective === "setups" ? 60 : 8)) {
+    if (built.length > 0 && now() > t0 + budget * 0.95 - Math.min(budget * 0.2, nParts * 0.02)) break;
     try {
       built.push({ sol, plan: buildPlan(prep, sol, 0, lb) });
     } catch {
