@@ -109,8 +109,8 @@ export async function seedDemo(db: Database, today = new Date()): Promise<void> 
     const [wedding, nursery, cafe] = await tx
       .insert(t.orders)
       .values([
-        { shopId: shop.id, number: 1001, customerId: ardent.id, eventDate: day(32), dueDate: day(18), status: "confirmed" },
-        { shopId: shop.id, number: 1002, customerId: penhaligon.id, eventDate: day(24), dueDate: day(14), status: "confirmed" },
+        { shopId: shop.id, number: 1001, customerId: ardent.id, eventDate: day(32), dueDate: day(18), status: "confirmed", confirmedAt: today, confirmationSentAt: today },
+        { shopId: shop.id, number: 1002, customerId: penhaligon.id, eventDate: day(24), dueDate: day(14), status: "confirmed", confirmedAt: today, confirmationSentAt: today },
         { shopId: shop.id, number: 1003, customerId: brindle.id, eventDate: day(40), dueDate: day(19), status: "draft" },
       ])
       .returning();
