@@ -248,6 +248,7 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
     deadline,
     lowerBound: lb,
     offcutsFirst: true,
+    onImprove: options.onProgress && ((bins) => options.onProgress!({ bestSheets: bins })),
   };
   const allOrders = Array.from({ length: ORDER_COUNT }, (_, i) => i);
   const cands: Solution[] = [];
@@ -267,6 +268,7 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
   if (dbg) dbg.tConstruct = now() - t0;
   let best = cands[0];
   for (const c of cands) if (lexLess(basicKey(c, prep.slots), basicKey(best, prep.slots))) best = c;
+  options.onProgress?.({ bestSheets: best.bins.length });
   // improvement: leave a little time to lay out and check the plan
   const nParts = prep.demand.reduce((a, b) => a + b, 0);
   const improveEnd = t0 + budget * 0.92 - Math.min(budget * 0.3, nParts * 0.06);

@@ -239,7 +239,10 @@ export function goalDrivenGuillotine(input: SearchInput, start: Solution, varian
     }
     if (curCost <= 1e-9) {
       const sol = toSolution(bins);
-      if (lexLess(basicKey(sol, stocks), basicKey(best, stocks))) best = sol;
+      if (lexLess(basicKey(sol, stocks), basicKey(best, stocks))) {
+        best = sol;
+        input.onImprove?.(best.bins.length);
+      }
       if (done()) break;
       pool = new Int32Array(nT);
       if (!dropOne()) break;

@@ -46,6 +46,8 @@ export interface SearchInput {
   lowerBound: number;
   /** whether to try racked offcuts before full sheets */
   offcutsFirst: boolean;
+  /** told the panel count each time the search finds a better solution */
+  onImprove?: (bins: number) => void;
 }
 
 const ORDER_KEYS: ((d: { l: number; w: number }) => number)[] = [
@@ -302,7 +304,10 @@ export function ruinAndRecreate(input: SearchInput, start: Solution, variants: F
     if (poolW <= 1e-9) {
       // every item placed with one panel fewer
       const sol: Solution = { bins: cur.bins, left: new Int32Array(nT) };
-      if (lexLess(basicKey(sol, stocks), basicKey(best, stocks))) best = cloneSolution(sol);
+      if (lexLess(basicKey(sol, stocks), basicKey(best, stocks))) {
+        best = cloneSolution(sol);
+        input.onImprove?.(best.bins.length);
+      }
       if (fullSheets(best, stocks) <= input.lowerBound && !best.bins.some((b) => stocks[b.s].offcut)) break;
       pool = new Int32Array(nT);
       if (!dropOne()) break;

@@ -160,4 +160,6 @@ export interface Plan {
 export interface PackOptions {
   /** clock for the time budget; tests pass their own */
   now?: () => number;
+  /** told the panel count of the best plan found so far, each time it improves (for progress displays) */
+  onProgress?: (progress: { bestSheets: number }) => void;
 }
