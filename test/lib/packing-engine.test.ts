@@ -163,4 +163,54 @@ describe("stages, trim, grain, offcuts", () => {
     const strip = (p: Plan) => ({ ...p, metrics: { ...p.metrics, elapsedMs: 0 } });
     expect(strip(run(input))).toEqual(strip(run(input)));
   });
+
+  it("objective setups trades at most one extra sheet for fewer set-ups", () => {
+    const input = {
+      kerf: 3.2,
+      trim: 10,
+      stages: 2,
+      timeLimitMs: 150,
+      stock: [sheet2440()],
+      parts: [
+        { id: "a", length: 600, width: 300, quantity: 14, rotate: false },
+        { id: "b", length: 590, width: 290, quantity: 14, rotate: false },
+        { id: "c", length: 410, width: 205, quantity: 10, rotate: false },
+      ],
+    };
+    const bySheets = run({ ...input, objective: "sheets" });
+    const bySetups = run({ ...input, objective: "setups" });
+    expect(bySetups.metrics.sheets).toBeLessThanOrEqual(bySheets.metrics.sheets + 1);
+    expect(bySetups.metrics.setups).toBeLessThanOrEqual(bySheets.metrics.setups);
+    // three widths and three lengths: six settings are the least any plan can have
+    expect(bySetups.metrics.setups).toBeGreaterThanOrEqual(6);
+    // crosscut settings run longest first so the stop travels one way
+    const cross = bySetups.setups.filter((s) => s.kind === "crosscut").map((s) => s.setting);
+    expect(cross).toEqual([...cross].sort((x, y) => y - x));
+    expect(bySetups.setups.map((s) => s.kind)).toEqual([...bySetups.setups.map((s) => s.kind)].sort((x, y) => (x === y ? 0 : x === "rip" ? -1 : 1)));
+  });
+
+  it("keeps strips within the sled's width and reports the offcut left over", () => {
+    const p = run({
+      kerf: 3.2,
+      stages: 2,
+      stock: [sheet2440({ quantity: 1 })],
+      parts: [{ id: "shelf", length: 800, width: 500, quantity: 2, rotate: true }],
+      limits: { sledWidthMax: 450 },
+      minOffcut: { shortSide: 200, area: 100_000 },
+    });
+    // 500 × 800: both sides are wider than the sled takes, so the shelves are unplaced with the limit named
+    expect(p.unplaced[0].reason).toMatch(/ripMax\/sledWidthMax/);
+    const q = run({
+      kerf: 3.2,
+      stages: 2,
+      stock: [sheet2440({ quantity: 1 })],
+      parts: [{ id: "shelf", length: 800, width: 400, quantity: 2, rotate: true }],
+      limits: { sledWidthMax: 450 },
+      minOffcut: { shortSide: 200, area: 100_000 },
+    });
+    expect(q.unplaced).toEqual([]);
+    expect(q.sheets[0].placements.every((pl) => pl.width <= 450)).toBe(true);
+    // one 400 strip with both shelves; the 816.8 mm above it is one big offcut
+    expect(q.sheets[0].offcuts).toContainEqual({ x: 0, y: 403.2, length: 2440, width: 816.8 });
+  });
 });

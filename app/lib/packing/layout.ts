@@ -100,11 +100,21 @@ export function layoutPanel(area: RectUm, parts: RectUm[], kerf: number, stages:
     }
     let axis = n.axis;
     let groups = n.parts.length > 1 ? groupsAlong(n.parts, axis, kerf) : [n.parts];
-    if (n.parts.length > 1 && groups.length === 1) {
+    // one group that leaves waste beside it is still cut off at this stage (a strip from the sheet)
+    const covers = (g: RectUm[], a: Axis) => {
+      let gs = Infinity;
+      let ge = -Infinity;
+      for (const p of g) {
+        gs = Math.min(gs, lo(p, a));
+        ge = Math.max(ge, lo(p, a) + len(p, a));
+      }
+      return gs === lo(n.r, a) && ge === lo(n.r, a) + len(n.r, a);
+    };
+    if (n.parts.length > 1 && groups.length === 1 && covers(groups[0], axis)) {
       if (stages === 0) {
         axis = other(axis);
         groups = groupsAlong(n.parts, axis, kerf);
-        if (groups.length === 1) throw new Error("placements are not guillotine-cuttable");
+        if (groups.length === 1 && covers(groups[0], axis)) throw new Error("placements are not guillotine-cuttable");
       } else {
         if (n.depth >= stages) throw new Error(`placements need more than ${stages} stages`);
         queue.push({ r: n.r, parts: n.parts, depth: n.depth + 1, axis: other(axis) });
