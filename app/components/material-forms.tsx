@@ -45,46 +45,50 @@ export function MaterialCard({ material, unit, currency, canWrite, actionData }:
       {material.panels.length === 0 ? (
         <p className="text-sm text-muted">No stock panels yet.</p>
       ) : (
-        <div className="overflow-x-auto">
-          <table className="w-full min-w-[32rem] text-left text-sm">
-            <caption className="sr-only">Stock panels of {material.name}</caption>
-            <thead className="border-b border-line text-xs uppercase tracking-wider text-muted">
-              <tr>
-                <th scope="col" className="py-2 pr-4 font-semibold">Panel</th>
-                <th scope="col" className="py-2 pr-4 font-semibold">Grain</th>
-                <th scope="col" className="py-2 pr-4 text-right font-semibold">Cost each</th>
-                <th scope="col" className="py-2 pr-4 text-right font-semibold">On hand</th>
-                {canWrite && <th scope="col" className="py-2 font-semibold"><span className="sr-only">Change</span></th>}
-              </tr>
-            </thead>
-            <tbody className="divide-y divide-line">
-              {material.panels.map((p) => (
-                <tr key={p.id} className="align-top">
-                  <td className="py-2 pr-4 font-medium tabular-nums">{formatSize(p.lengthUm, p.widthUm, unit)}</td>
-                  <td className="py-2 pr-4">{GRAIN_LABELS[p.grain]}</td>
-                  <td className="py-2 pr-4 text-right tabular-nums">{formatMoney(p.costMinor, currency)}</td>
-                  <td className="py-2 pr-4 text-right tabular-nums">{p.onHand}</td>
-                  {canWrite && (
-                    <td className="py-2">
-                      <details open={Boolean(own(actionData, "edit-panel", p.id))} className="group">
-                        <summary className="cursor-pointer text-edge">Change</summary>
-                        <div className="mt-2 space-y-3">
-                          <PanelForm key={actionData?.stamp} materialId={material.id} panel={p} unit={unit} currency={currency} actionData={actionData} />
-                          <Form method="post">
-                            <input type="hidden" name="intent" value="remove-panel" />
-                            <input type="hidden" name="panelId" value={p.id} />
-                            <button type="submit" className="min-h-11 rounded-md border border-bad/40 px-4 text-sm font-medium text-bad hover:bg-bad-soft">
-                              Remove this panel
-                            </button>
-                          </Form>
-                        </div>
-                      </details>
-                    </td>
-                  )}
-                </tr>
-              ))}
-            </tbody>
-          </table>
+        <div className="text-sm" role="table" aria-label={`Stock panels of ${material.name}`}>
+          <div role="row" className="grid grid-cols-[1.4fr_1fr_1fr_0.8fr_4.5rem] gap-2 border-b border-line pb-2 text-xs font-semibold uppercase tracking-wider text-muted">
+            <span role="columnheader">Panel</span>
+            <span role="columnheader">Grain</span>
+            <span role="columnheader" className="text-right">Cost each</span>
+            <span role="columnheader" className="text-right">On hand</span>
+            <span role="columnheader" className="sr-only">Change</span>
+          </div>
+          {material.panels.map((p) => {
+            const cells = (
+              <>
+                <span role="cell" className="font-medium tabular-nums">{formatSize(p.lengthUm, p.widthUm, unit)}</span>
+                <span role="cell">{GRAIN_LABELS[p.grain]}</span>
+                <span role="cell" className="text-right tabular-nums">{formatMoney(p.costMinor, currency)}</span>
+                <span role="cell" className="text-right tabular-nums">{p.onHand}</span>
+              </>
+            );
+            const row = "grid grid-cols-[1.4fr_1fr_1fr_0.8fr_4.5rem] items-center gap-2 py-2";
+            if (!canWrite) {
+              return (
+                <div key={p.id} role="row" className={`${row} border-b border-line`}>
+                  {cells}
+                </div>
+              );
+            }
+            return (
+              <details key={p.id} open={Boolean(own(actionData, "edit-panel", p.id))} className="border-b border-line">
+                <summary role="row" className={`${row} cursor-pointer list-none [&::-webkit-details-marker]:hidden`}>
+                  {cells}
+                  <span role="cell" className="text-right font-medium text-edge">Change</span>
+                </summary>
+                <div className="space-y-3 pb-4 pt-1">
+                  <PanelForm key={actionData?.stamp} materialId={material.id} panel={p} unit={unit} currency={currency} actionData={actionData} />
+                  <Form method="post">
+                    <input type="hidden" name="intent" value="remove-panel" />
+                    <input type="hidden" name="panelId" value={p.id} />
+                    <button type="submit" className="min-h-11 rounded-md border border-bad/40 px-4 text-sm font-medium text-bad hover:bg-bad-soft">
+                      Remove this panel
+                    </button>
+                  </Form>
+                </div>
+              </details>
+            );
+          })}
         </div>
       )}
 

@@ -127,17 +127,6 @@ function Editor({ productId, values, currency, materials, parts: ctx, canWrite, 
                 </p>
               )}
             </div>
-            {canWrite && (
-              <button
-                id="add-part"
-                type="button"
-                onClick={addPart}
-                disabled={materials.length === 0}
-                className="min-h-11 rounded-md border border-edge bg-white px-4 font-semibold text-edge hover:bg-edge-soft disabled:opacity-50"
-              >
-                Add part
-              </button>
-            )}
           </div>
           {materials.length === 0 && (
             <FormAlert tone="warn">
@@ -158,6 +147,17 @@ function Editor({ productId, values, currency, materials, parts: ctx, canWrite, 
             />
           </div>
           {rows.length === 0 && <p className="text-sm text-muted">No parts yet.{canWrite ? " Add the first with “Add part”." : ""}</p>}
+          {canWrite && (
+            <button
+              id="add-part"
+              type="button"
+              onClick={addPart}
+              disabled={materials.length === 0}
+              className="min-h-11 rounded-md border border-edge bg-white px-4 font-semibold text-edge hover:bg-edge-soft disabled:opacity-50"
+            >
+              Add part
+            </button>
+          )}
           {partsMessage && (
             <p id="parts-error" className="text-sm font-medium text-bad">
               {partsMessage}

@@ -111,11 +111,12 @@ export async function removePanel(shopId: string, panelId: string): Promise<bool
 export const PRODUCT_SORTS = ["name", "price", "leadTime", "parts", "created"] as const;
 export type ProductSort = (typeof PRODUCT_SORTS)[number];
 
-const partCount = sql<number>`(select count(*)::int from ${productParts} where ${productParts.productId} = ${products.id})`;
+// Drizzle leaves columns unqualified inside a select list, so these subqueries name their tables.
+const partCount = sql<number>`(select count(*)::int from product_parts pp where pp.product_id = "products"."id")`;
 const materialNames = sql<string | null>`(
-  select string_agg(distinct ${materials.name}, ', ' order by ${materials.name})
-  from ${productParts} join ${materials} on ${materials.id} = ${productParts.materialId}
-  where ${productParts.productId} = ${products.id})`;
+  select string_agg(distinct m.name, ', ' order by m.name)
+  from product_parts pp join materials m on m.id = pp.material_id
+  where pp.product_id = "products"."id")`;
 
 export async function listProducts(shopId: string, query: ListQuery<ProductSort>) {
   const db = getDb();

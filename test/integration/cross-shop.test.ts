@@ -63,4 +63,35 @@ describe("another shop's ids", () => {
     const list = await request(server).get("/api/orders").set("Cookie", owner);
     expect(list.body.rows.map((r: { id: string }) => r.id)).not.toContain(order.id);
   });
+
+  it("catalogue: another shop's product answers 404 to read and write, and keeps its name and parts", async () => {
+    const t = await import("../../db/schema");
+    const [material] = await getDb().insert(t.materials).values({ shopId: theirs.id, name: "Their birch", kind: "plywood", thicknessUm: 6000 }).returning();
+    const [product] = await getDb().insert(t.products).values({ shopId: theirs.id, name: "Their plaque", priceMinor: 1000 }).returning();
+    await getDb().insert(t.productParts).values({ productId: product.id, materialId: material.id, name: "Plaque", lengthUm: 400_000, widthUm: 150_000 });
+    expect((await request(server).get(`/catalogue/products/${product.id}`).set("Cookie", owner)).status).toBe(404);
+    const parts = JSON.stringify([{ key: "a", name: "Mine", length: "100", width: "100", materialId: material.id, quantity: 1, grainLocked: false, process: "saw" }]);
+    const res = await request(server).post(`/catalogue/products/${product.id}`).set("Cookie", owner).type("form").send({ name: "Mine now", price: "1", leadTime: "", parts });
+    expect(res.status).toBe(404);
+    const [after] = await getDb().select().from(t.products).where(eq(t.products.id, product.id));
+    expect(after.name).toBe("Their plaque");
+    expect(await getDb().select().from(t.productParts).where(eq(t.productParts.productId, product.id))).toHaveLength(1);
+    expect((await request(server).get("/catalogue?q=Their").set("Cookie", owner)).text).not.toContain("Their plaque");
+  });
+
+  it("catalogue: another shop's material and stock panel answer 404 to every change", async () => {
+    const t = await import("../../db/schema");
+    const [material] = await getDb().insert(t.materials).values({ shopId: theirs.id, name: "Their MDF", kind: "mdf", thicknessUm: 6000 }).returning();
+    const [panel] = await getDb().insert(t.stockPanels).values({ shopId: theirs.id, materialId: material.id, lengthUm: 2_440_000, widthUm: 1_220_000, costMinor: 2190, onHand: 5 }).returning();
+    const post = (body: Record<string, string>) => request(server).post("/catalogue/materials").set("Cookie", owner).type("form").send(body);
+    const panelFields = { length: "100", width: "100", cost: "1", onHand: "1", grain: "none" };
+    expect((await post({ intent: "edit-material", materialId: material.id, name: "Mine", kind: "mdf", thickness: "3", note: "" })).status).toBe(404);
+    expect((await post({ intent: "remove-material", materialId: material.id })).status).toBe(404);
+    expect((await post({ intent: "add-panel", materialId: material.id, ...panelFields })).status).toBe(404);
+    expect((await post({ intent: "edit-panel", panelId: panel.id, ...panelFields })).status).toBe(404);
+    expect((await post({ intent: "remove-panel", panelId: panel.id })).status).toBe(404);
+    const [m] = await getDb().select().from(t.materials).where(eq(t.materials.id, material.id));
+    expect(m.name).toBe("Their MDF");
+    expect(await getDb().select().from(t.stockPanels).where(eq(t.stockPanels.materialId, material.id))).toEqual([panel]);
+  });
 });
