@@ -30,7 +30,10 @@ export const orderStatusEnum = pgEnum("order_status", [
   "delivered",
   "cancelled",
 ]);
-export const offcutStatusEnum = pgEnum("offcut_status", ["racked", "reserved", "used", "discarded"]);
+// expected: a released plan will make it; racked: on the rack; reserved: a released batch will cut it.
+export const offcutStatusEnum = pgEnum("offcut_status", ["expected", "racked", "reserved", "used", "discarded"]);
+export const batchStatusEnum = pgEnum("batch_status", ["open", "planned", "released", "cut", "closed"]);
+export const planStatusEnum = pgEnum("plan_status", ["queued", "running", "done", "failed", "cancelled"]);
 
 export const shops = pgTable("shops", {
   id: uuid("id").primaryKey().defaultRandom(),
@@ -126,6 +129,9 @@ export const offcuts = pgTable(
     grain: grainEnum("grain").notNull().default("length"),
     location: text("location").notNull().default(""),
     status: offcutStatusEnum("status").notNull().default("racked"),
+    // The batch whose plan made it, and the released batch that will cut it.
+    sourceBatchId: uuid("source_batch_id"),
+    reservedBatchId: uuid("reserved_batch_id"),
     createdAt: createdAt(),
   },
   (t) => [index("offcuts_shop_material_idx").on(t.shopId, t.materialId)],
@@ -285,4 +291,100 @@ export const lineFiles = pgTable(
     createdAt: createdAt(),
   },
   (t) => [index("line_files_line_idx").on(t.orderLineId)],
+);
+
+export const batches = pgTable(
+  "batches",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    shopId: uuid("shop_id")
+      .notNull()
+      .references(() => shops.id, { onDelete: "cascade" }),
+    number: integer("number").notNull(),
+    materialId: uuid("material_id")
+      .notNull()
+      .references(() => materials.id),
+    status: batchStatusEnum("status").notNull().default("open"),
+    dueBy: date("due_by", { mode: "string" }).notNull(),
+    chosenPlanId: uuid("chosen_plan_id"),
+    releasedAt: timestamp("released_at", { withTimezone: true, mode: "date" }),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("batches_shop_number_key").on(t.shopId, t.number), index("batches_shop_status_idx").on(t.shopId, t.status)],
+);
+
+// Which batch cuts an order line's parts of one material (a line may have parts in several materials).
+export const batchLines = pgTable(
+  "batch_lines",
+  {
+    batchId: uuid("batch_id")
+      .notNull()
+      .references(() => batches.id, { onDelete: "cascade" }),
+    orderLineId: uuid("order_line_id")
+      .notNull()
+      .references(() => orderLines.id, { onDelete: "cascade" }),
+    materialId: uuid("material_id")
+      .notNull()
+      .references(() => materials.id),
+  },
+  (t) => [uniqueIndex("batch_lines_line_material_key").on(t.orderLineId, t.materialId), index("batch_lines_batch_idx").on(t.batchId)],
+);
+
+// Lines the planner holds back: not proposed for a batch until released from the hold.
+export const heldLines = pgTable(
+  "held_lines",
+  {
+    shopId: uuid("shop_id")
+      .notNull()
+      .references(() => shops.id, { onDelete: "cascade" }),
+    orderLineId: uuid("order_line_id")
+      .notNull()
+      .references(() => orderLines.id, { onDelete: "cascade" }),
+    materialId: uuid("material_id")
+      .notNull()
+      .references(() => materials.id),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("held_lines_line_material_key").on(t.orderLineId, t.materialId)],
+);
+
+export type PlanSettings = {
+  kerfMm: number;
+  trimMm: number;
+  stages: 0 | 2 | 3;
+  objective: "sheets" | "setups";
+  timeLimitMs: number;
+  offcutIds: string[];
+  seed: number;
+};
+export type PlanProgress = { elapsedMs: number; bestSheets: number | null };
+
+export const plans = pgTable(
+  "plans",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    shopId: uuid("shop_id")
+      .notNull()
+      .references(() => shops.id, { onDelete: "cascade" }),
+    batchId: uuid("batch_id")
+      .notNull()
+      .references(() => batches.id, { onDelete: "cascade" }),
+    number: integer("number").notNull(),
+    status: planStatusEnum("status").notNull().default("queued"),
+    settings: jsonb("settings").$type<PlanSettings>().notNull(),
+    progress: jsonb("progress").$type<PlanProgress>(),
+    // The engine's job and plan, as saved after the validator passed it.
+    result: jsonb("result").$type<unknown>(),
+    sheets: integer("sheets"),
+    yieldPermille: integer("yield_permille"),
+    costMinor: integer("cost_minor"),
+    setups: integer("setups"),
+    offcutAreaMm2: integer("offcut_area_mm2"),
+    error: text("error"),
+    jobId: text("job_id"),
+    createdAt: createdAt(),
+    startedAt: timestamp("started_at", { withTimezone: true, mode: "date" }),
+    finishedAt: timestamp("finished_at", { withTimezone: true, mode: "date" }),
+  },
+  (t) => [uniqueIndex("plans_batch_number_key").on(t.batchId, t.number)],
 );
