@@ -230,7 +230,12 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
   const rng = mulberry32(job.seed);
   const variants = job.stages === 0 ? guillotineVariants() : stagedVariants(job.stages);
   // shelf-like staged patterns are guillotine patterns too: good starts for long thin parts
-  const buildVariants = job.stages === 0 ? [...variants, ...stagedVariants(2), ...stagedVariants(3)] : variants;
+  const totalParts = prep.demand.reduce((a, b) => a + b, 0);
+  const look: FillParams[] =
+    job.stages === 0 && totalParts <= 300
+      ? [0, 3].flatMap((rc) => [2, 4].map((sp): FillParams => ({ kind: "guillotine", rectChoice: rc, split: sp, driver: "look" })))
+      : [];
+  const buildVariants = job.stages === 0 ? [...variants, ...stagedVariants(2), ...stagedVariants(3), ...look] : variants;
   const dims = prep.lowerBoundItems.map((_, t) => {
     const p = job.parts[prep.typePart[t]];
     return { l: mmToUm(p.length) + prep.kerf, w: mmToUm(p.width) + prep.kerf };

@@ -35,8 +35,11 @@ export interface GuillotineParams {
   rectChoice: number;
   /** 0 shorter axis, 1 longer axis, 2 shorter leftover, 3 longer leftover, 4 min area, 5 max area */
   split: number;
-  /** item-driven (pack the order) or rectangle-driven (best item for each free rectangle) */
-  driver: "item" | "rect";
+  /**
+   * item-driven (pack the order), rectangle-driven (best item for each free rectangle), or look-ahead
+   * (rectangle-driven, each choice judged by completing the panel greedily: slow, for small jobs)
+   */
+  driver: "item" | "rect" | "look";
 }
 
 export interface StagedParams {
@@ -71,6 +74,7 @@ export function fillBin(
   freeOut?: Free[],
 ): number {
   if (params.kind === "guillotine") {
+    if (params.driver === "look") return lookaheadFill(ctx, counts, order, params, weight, out, freeOut);
     return params.driver === "item"
       ? guillotineItemFill(ctx, counts, order, params, weight, out, freeOut)
       : guillotineRectFill(ctx, counts, order, params, weight, out, freeOut);
@@ -348,5 +352,106 @@ function stagedFill(
     if (!any || p.stages === 2 || !p.sectionByOpener) break;
     x0 += secLen;
   }
+  return packed;
+}
+
+// --- look-ahead: judge each candidate for the next free rectangle by a greedy completion ---
+
+function pickRect(free: Free[], bottomLeft: boolean): number {
+  let ri = 0;
+  for (let i = 1; i < free.length; i++) {
+    const a = free[i];
+    const b = free[ri];
+    if (bottomLeft ? a.y < b.y || (a.y === b.y && a.x < b.x) : a.w * a.h < b.w * b.h) ri = i;
+  }
+  return ri;
+}
+
+/** Greedy completion (area only): the biggest fitting part into the chosen rectangle, repeatedly. */
+function greedyArea(ctx: BinContext, counts: Int32Array, live: number[], free: Free[], split: number, bottomLeft: boolean): number {
+  let area = 0;
+  while (free.length > 0) {
+    const ri = pickRect(free, bottomLeft);
+    const r = free[ri];
+    let bestT = -1;
+    let bestO: Orient | null = null;
+    let bestA = 0;
+    for (const t of live) {
+      if (counts[t] <= 0) continue;
+      for (const o of ctx.orients[t]) {
+        if (o.w <= r.w && o.h <= r.h && o.w * o.h > bestA) {
+          bestA = o.w * o.h;
+          bestT = t;
+          bestO = o;
+        }
+      }
+    }
+    if (!bestO) {
+      free[ri] = free[free.length - 1];
+      free.pop();
+      continue;
+    }
+    placeAndSplit(free, ri, bestO, split);
+    counts[bestT]--;
+    area += bestA;
+  }
+  return area;
+}
+
+function lookaheadFill(
+  ctx: BinContext,
+  counts: Int32Array,
+  order: number[],
+  p: GuillotineParams,
+  weight: Float64Array,
+  out: Placed[],
+  freeOut?: Free[],
+): number {
+  const free: Free[] = freeOut ?? [];
+  free.length = 0;
+  free.push({ x: 0, y: 0, w: ctx.W, h: ctx.H });
+  const dead: Free[] = [];
+  const live = [...new Set(order)].filter((t) => counts[t] > 0 && ctx.orients[t].length > 0);
+  const bottomLeft = p.rectChoice === 3;
+  let packed = 0;
+  const width = 6;
+  while (free.length > 0) {
+    const ri = pickRect(free, bottomLeft);
+    const r = free[ri];
+    // the biggest few candidates, each with both ways of cutting the rest
+    const cand: { t: number; o: Orient }[] = [];
+    for (const t of live) {
+      if (counts[t] <= 0) continue;
+      for (const o of ctx.orients[t]) if (o.w <= r.w && o.h <= r.h) cand.push({ t, o });
+    }
+    if (cand.length === 0) {
+      dead.push(r);
+      free[ri] = free[free.length - 1];
+      free.pop();
+      continue;
+    }
+    cand.sort((a, b) => b.o.w * b.o.h - a.o.w * a.o.h);
+    let best: { t: number; o: Orient; split: number } | null = null;
+    let bestScore = -1;
+    for (const c of cand.slice(0, width)) {
+      for (const split of [p.split, p.split ^ 1]) {
+        const f = free.slice();
+        const cc = counts.slice();
+        placeAndSplit(f, ri, c.o, split);
+        cc[c.t]--;
+        const score = c.o.w * c.o.h + greedyArea(ctx, cc, live, f, p.split, bottomLeft);
+        if (score > bestScore) {
+          bestScore = score;
+          best = { t: c.t, o: c.o, split };
+        }
+      }
+    }
+    const b = best!;
+    placeAndSplit(free, ri, b.o, b.split);
+    out.push({ t: b.t, x: r.x, y: r.y, w: b.o.w, h: b.o.h, rot: b.o.rot });
+    counts[b.t]--;
+    packed += weight[b.t];
+  }
+  for (const d of dead) free.push(d);
   return packed;
 }

@@ -22,6 +22,7 @@ const KMAX = Number(ENV.SW_K ?? 3);
 const HIST = Number(ENV.SW_HIST ?? 50);
 const STALL = Number(ENV.SW_STALL ?? 3000);
 const SHORT_P = Number(ENV.SW_SHORT ?? 0);
+const LOOK_BINS = Number(ENV.SW_LOOKBINS ?? 4);
 const REFILL_P = Number(ENV.SW_REFILL ?? 0.3);
 const REFILL_TRIES = Number(ENV.SW_TRIES ?? 3);
 
@@ -30,6 +31,9 @@ export function goalDrivenGuillotine(input: SearchInput, start: Solution, varian
   const nT = weight.length;
   const itemVariants = variants.filter((v) => v.driver === "item");
   if (itemVariants.length === 0 || start.left.some((n) => n > 0)) return start;
+  // look-ahead fills are slow: only where a few panels carry many parts
+  const fewBins = start.bins.length <= LOOK_BINS;
+  const refillVariants = allVariants.filter((v) => fewBins || !(v.kind === "guillotine" && v.driver === "look"));
   const cost = new Float64Array(nT);
   for (let t = 0; t < nT; t++) cost[t] = Math.pow(dims[t].l * dims[t].w, costExp);
 
@@ -120,7 +124,7 @@ export function goalDrivenGuillotine(input: SearchInput, start: Solution, varian
         const s = bins[i].s;
         let bestBin: GBin | null = null;
         for (let a = 0; a < REFILL_TRIES; a++) {
-          const v = allVariants[randInt(rng, allVariants.length)];
+          const v = refillVariants[randInt(rng, refillVariants.length)];
           const order = makeOrder(work, dims, randInt(rng, ORDER_COUNT), rng, 0.2 + 0.6 * rng());
           const c = work.slice();
           const placed: Placed[] = [];

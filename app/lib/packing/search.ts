@@ -140,6 +140,10 @@ export function constructive(input: SearchInput, variants: FillParams[], orders:
         // over budget: settle this panel with what has been tried
         if (best && vi > 0 && input.now() > budgetEnd) late = true;
         for (let oi = 0; oi < olist.length && !late; oi++) {
+          if (best && oi > 0 && input.now() > budgetEnd) {
+            late = true;
+            break;
+          }
           const tr = tryFill(stocks[s].ctx, remaining, orderCache[oi], vlist[vi], weight);
           const better =
             !best ||
