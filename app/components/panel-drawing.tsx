@@ -45,7 +45,8 @@ function inferTrim(sheet: SheetPlan): number {
   return least > 0 && least < Math.min(sheet.length, sheet.width) / 2 ? least : 0;
 }
 
-type TextLayout = { font: number; lines: string[]; upright: boolean };
+/** wrapped: the lines are one name over two lines (not a name and a size) */
+type TextLayout = { font: number; lines: string[]; upright: boolean; wrapped?: boolean };
 
 /**
  * The largest readable label that fits the rectangle: run along its longer side, shrink to fit between
@@ -55,13 +56,15 @@ type TextLayout = { font: number; lines: string[]; upright: boolean };
 function layoutText(lines: string[], along: number, across: number, min: number, max: number): TextLayout | null {
   const upright = across > along * 1.15;
   const [run, depth] = upright ? [across, along] : [along, across];
-  for (let count = lines.length; count >= 1; count--) {
-    const shown = lines.slice(0, count);
+  const split = splitInTwo(lines[0]);
+  const candidates = [...lines.map((_, i) => lines.slice(0, lines.length - i)), split];
+  for (const shown of candidates) {
+    if (shown.length === 0) continue;
     const longest = Math.max(...shown.map((line) => [...line].length));
     const byRun = (0.9 * run) / (longest * CHAR_ADVANCE_EM);
-    const byDepth = (0.8 * depth) / (count * LINE_HEIGHT_EM);
+    const byDepth = (0.8 * depth) / (shown.length * LINE_HEIGHT_EM);
     const font = Math.min(max, byRun, byDepth);
-    if (font >= min) return { font, lines: shown, upright };
+    if (font >= min) return { font, lines: shown, upright, wrapped: shown === split };
   }
   if (depth * 0.8 < min * LINE_HEIGHT_EM) return null;
   const fitChars = Math.floor((0.9 * run) / (min * CHAR_ADVANCE_EM));
@@ -69,8 +72,21 @@ function layoutText(lines: string[], along: number, across: number, min: number,
   return { font: min, lines: [[...lines[0]].slice(0, fitChars - 1).join("") + "…"], upright };
 }
 
+/** A name of several words over two lines, split where the longer line is shortest; [] for one word. */
+function splitInTwo(text: string): string[] {
+  const words = text.split(/\s+/).filter(Boolean);
+  if (words.length < 2) return [];
+  let best: string[] = [];
+  for (let i = 1; i < words.length; i++) {
+    const pair = [words.slice(0, i).join(" "), words.slice(i).join(" ")];
+    const worst = (lines: string[]) => Math.max(...lines.map((line) => [...line].length));
+    if (best.length === 0 || worst(pair) < worst(best)) best = pair;
+  }
+  return best;
+}
+
 function RectText({ layout, cx, cy, className }: { layout: TextLayout; cx: number; cy: number; className: string }) {
-  const { font, lines, upright } = layout;
+  const { font, lines, upright, wrapped } = layout;
   const first = cy - ((lines.length - 1) * font * LINE_HEIGHT_EM) / 2 + 0.35 * font;
   return (
     <text
@@ -83,7 +99,7 @@ function RectText({ layout, cx, cy, className }: { layout: TextLayout; cx: numbe
       pointerEvents="none"
     >
       {lines.map((line, i) => (
-        <tspan key={i} x={cx} dy={i === 0 ? 0 : font * LINE_HEIGHT_EM} className={i > 0 ? "fill-muted" : undefined}>
+        <tspan key={i} x={cx} dy={i === 0 ? 0 : font * LINE_HEIGHT_EM} className={i > 0 && !wrapped ? "fill-muted" : undefined}>
           {line}
         </tspan>
       ))}
@@ -218,19 +234,19 @@ export function PanelDrawing({ sheet, labels, kerfMm, title, unit = "mm", trimMm
                 x2={line.x2}
                 y2={W - line.y2}
                 className="stroke-rail"
-                strokeWidth={Math.max(kerfMm, stroke * 1.5)}
+                strokeWidth={Math.max(kerfMm, stroke * 2.5)}
                 strokeLinecap="butt"
-                opacity={0.75}
+                opacity={0.85}
               />
             );
           })}
           {sheet.cuts.map((cut, i) => {
             const line = cutLine(cut, kerfMm);
-            const r = minText * 0.7;
+            const r = minText * 0.8;
             return (
               <g key={`cut-number-${i}`} data-cut={i + 1}>
                 <circle cx={line.x1} cy={W - line.y1} r={r} className="fill-rail stroke-card" strokeWidth={stroke} />
-                <text x={line.x1} y={W - line.y1 + 0.35 * r} fontSize={r} textAnchor="middle" className="fill-card font-semibold">
+                <text x={line.x1} y={W - line.y1 + 0.35 * r} fontSize={r * 1.05} textAnchor="middle" className="fill-card font-semibold">
                   {i + 1}
                 </text>
               </g>
