@@ -229,10 +229,12 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
   const prep = prepare(job);
   const rng = mulberry32(job.seed);
   const variants = job.stages === 0 ? guillotineVariants() : stagedVariants(job.stages);
-  // shelf-like staged patterns are guillotine patterns too: good starts for long thin parts
+  const lb = lowerBound(prep, prep.demand);
+  // shelf-like staged patterns are guillotine patterns too: good starts for long thin parts;
+  // the slow look-ahead filler only where a few panels take many parts
   const totalParts = prep.demand.reduce((a, b) => a + b, 0);
   const look: FillParams[] =
-    job.stages === 0 && totalParts <= 300
+    job.stages === 0 && totalParts <= 300 && lb <= 6
       ? [0, 3].flatMap((rc) => [2, 4].map((sp): FillParams => ({ kind: "guillotine", rectChoice: rc, split: sp, driver: "look" })))
       : [];
   const buildVariants = job.stages === 0 ? [...variants, ...stagedVariants(2), ...stagedVariants(3), ...look] : variants;
@@ -241,7 +243,6 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
     return { l: mmToUm(p.length) + prep.kerf, w: mmToUm(p.width) + prep.kerf };
   });
   const weight = new Float64Array(dims.map((d) => d.l * d.w));
-  const lb = lowerBound(prep, prep.demand);
   const input: SearchInput = {
     stocks: prep.slots,
     demand: prep.demand,
