@@ -100,8 +100,9 @@ export function PartsGrid({
 }) {
   const errorsRef = useRef(errors);
   errorsRef.current = errors;
+  // Class rules are applied on every refresh; a forced one would rebuild the cell being edited and eat keystrokes.
   useEffect(() => {
-    apiRef.current?.refreshCells({ force: true });
+    apiRef.current?.refreshCells();
   }, [errors, apiRef]);
 
   const rowData = useMemo(() => initialRows.map((r) => ({ ...r })), [initialRows]);

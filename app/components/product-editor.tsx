@@ -36,7 +36,9 @@ function Editor({ productId, values, currency, materials, parts: ctx, canWrite, 
   const rejected = result && !result.ok ? result : undefined;
   const shown = rejected?.values ?? values ?? { name: "", price: "", leadTime: "", parts: [] };
   const errors = rejected?.errors ?? {};
-  const [rows, setRows] = useState<PartRow[]>(shown.parts);
+  // The grid takes its rows once; after that it owns them (see parts-grid.tsx).
+  const [initialRows] = useState<PartRow[]>(shown.parts);
+  const [rows, setRows] = useState<PartRow[]>(initialRows);
   const [touched, setTouched] = useState<Set<string>>(() => new Set());
   const [showAll, setShowAll] = useState(Boolean(rejected));
   const [blocked, setBlocked] = useState(false);
@@ -65,8 +67,11 @@ function Editor({ productId, values, currency, materials, parts: ctx, canWrite, 
     api.applyTransaction({ add: [row] });
     setRows(allRows(api));
     const index = api.getRowNode(row.key)?.rowIndex ?? api.getDisplayedRowCount() - 1;
-    api.setFocusedCell(index, "name");
-    api.startEditingCell({ rowIndex: index, colKey: "name" });
+    // After the new row is drawn, so the editor's input (not just the cell) gets the keyboard.
+    requestAnimationFrame(() => {
+      api.setFocusedCell(index, "name");
+      api.startEditingCell({ rowIndex: index, colKey: "name" });
+    });
   }
 
   function onSubmit(event: FormEvent<HTMLFormElement>) {
@@ -136,7 +141,7 @@ function Editor({ productId, values, currency, materials, parts: ctx, canWrite, 
           <input type="hidden" name="parts" value={JSON.stringify(rows)} />
           <div data-testid="parts-grid">
             <PartsGrid
-              initialRows={shown.parts}
+              initialRows={initialRows}
               materials={materials}
               unit={ctx.unit}
               errors={visible}

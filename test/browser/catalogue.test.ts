@@ -1,0 +1,184 @@
+import { eq } from "drizzle-orm";
+import type { Browser, Page } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import * as t from "../../db/schema";
+import { launchBrowser, VIEWPORTS } from "../support/browser";
+import { createShop, type TestShop } from "../support/factories";
+import { startApp } from "../support/server";
+import { getDb } from "~/db.server";
+
+async function signInAs(page: Page, url: string, user: { email: string; password: string }) {
+  await page.goto(`${url}/sign-in`);
+  await page.getByLabel("E-mail").fill(user.email);
+  await page.getByLabel("Password").fill(user.password);
+  await page.getByRole("button", { name: "Sign in" }).click();
+  await page.getByRole("heading", { level: 1, name: "From the order to the offcut" }).waitFor();
+}
+
+function watchErrors(page: Page): string[] {
+  const errors: string[] = [];
+  page.on("console", (msg) => msg.type() === "error" && errors.push(msg.text()));
+  page.on("pageerror", (err) => errors.push(err.message));
+  return errors;
+}
+
+const cell = (page: Page, row: number, col: string) => page.locator(`.ag-row[row-index="${row}"] [col-id="${col}"]`);
+const isRed = async (page: Page, row: number, col: string) => ((await cell(page, row, col).getAttribute("class")) ?? "").includes("bg-bad-soft");
+
+describe("the catalogue in chromium", () => {
+  let app: Awaited<ReturnType<typeof startApp>>;
+  let browser: Browser;
+  let shop: TestShop;
+  let birch: typeof t.materials.$inferSelect;
+  let mdf: typeof t.materials.$inferSelect;
+  beforeAll(async () => {
+    shop = await createShop("Grid");
+    [birch, mdf] = await getDb()
+      .insert(t.materials)
+      .values([
+        { shopId: shop.id, name: "Birch 6 mm", kind: "plywood", thicknessUm: 6000 },
+        { shopId: shop.id, name: "MDF 6 mm", kind: "mdf", thicknessUm: 6000 },
+      ])
+      .returning();
+    app = await startApp();
+    browser = await launchBrowser();
+  });
+  afterAll(async () => {
+    await browser?.close();
+    await app?.stop();
+  });
+
+  it("the owner builds a two-part product with the keyboard, sees a bad width in red, fixes it, saves and finds it after a reload", async () => {
+    const context = await browser.newContext({ viewport: VIEWPORTS.desktop });
+    const page = await context.newPage();
+    const errors = watchErrors(page);
+    await signInAs(page, app.url, shop.users.owner);
+    await page.goto(`${app.url}/catalogue/products/new`, { waitUntil: "networkidle" });
+    await page.locator(".ag-root").waitFor();
+
+    await page.getByLabel("Name").fill("Welcome sign with stand");
+    await page.getByLabel("Price (EUR)").fill("85.00");
+    await page.getByLabel("Lead time (days)").fill("14");
+
+    // Part 1: Add part opens the name cell for typing; Tab walks the row.
+    await page.getByRole("button", { name: "Add part" }).focus();
+    await page.keyboard.press("Enter");
+    await cell(page, 0, "name").locator("input:focus").waitFor();
+    await page.keyboard.type("Sign face");
+    await page.keyboard.press("Tab");
+    await page.keyboard.type("600");
+    await page.keyboard.press("Tab");
+    await page.keyboard.type("0");
+    await page.keyboard.press("Tab"); // on to the material: the width is read and found wanting
+    await expect.poll(() => isRed(page, 0, "width")).toBe(true);
+    await page.getByText("Row 1 (Sign face), Width: Must be more than zero.").waitFor();
+    expect(await isRed(page, 0, "length")).toBe(false);
+
+    // Back to the width, fix it, Enter to save the cell.
+    await page.keyboard.press("Shift+Tab");
+    await cell(page, 0, "width").locator("input:focus").waitFor();
+    await page.keyboard.press("Control+A");
+    await page.keyboard.type("400");
+    await page.keyboard.press("Enter");
+    await expect.poll(() => isRed(page, 0, "width")).toBe(false);
+    expect(await page.getByTestId("part-problems").count()).toBe(0);
+
+    // Part 2 in MDF, two per product, grain locked.
+    await page.getByRole("button", { name: "Add part" }).focus();
+    await page.keyboard.press("Enter");
+    await cell(page, 1, "name").locator("input:focus").waitFor();
+    await page.keyboard.type("Stand");
+    await page.keyboard.press("Tab");
+    await page.keyboard.type("150");
+    await page.keyboard.press("Tab");
+    await page.keyboard.type("80");
+    await page.keyboard.press("Tab");
+    const picker = cell(page, 1, "materialId").locator('[role="combobox"]');
+    await picker.and(page.locator(":focus")).waitFor();
+    await page.keyboard.press("Enter"); // open the material list
+    await page.locator('[role="combobox"][aria-expanded="true"]').waitFor();
+    await page.keyboard.press("ArrowDown");
+    await page.keyboard.press("Enter");
+    await page.locator('[role="combobox"][aria-expanded="true"]').waitFor({ state: "detached" });
+    await page.keyboard.press("Tab");
+    await page.keyboard.press("Control+A");
+    await page.keyboard.type("2");
+    await page.keyboard.press("Tab");
+    await page.keyboard.press("Space");
+    await page.keyboard.press("Tab");
+    await page.keyboard.press("Escape");
+    expect(await cell(page, 1, "materialId").textContent()).toBe("MDF 6 mm");
+
+    await page.getByRole("button", { name: "Create product" }).focus();
+    await page.keyboard.press("Enter");
+    await page.waitForURL(/\/catalogue\/products\/[0-9a-f-]{36}\?created=1$/);
+    await page.getByText("Product created.").waitFor();
+
+    const [product] = await getDb().select().from(t.products).where(eq(t.products.shopId, shop.id));
+    expect(product).toMatchObject({ name: "Welcome sign with stand", priceMinor: 8500, leadTimeDays: 14 });
+    const parts = await getDb().select().from(t.productParts).where(eq(t.productParts.productId, product.id)).orderBy(t.productParts.name);
+    expect(parts).toMatchObject([
+      { name: "Sign face", lengthUm: 600_000, widthUm: 400_000, materialId: birch.id, quantity: 1, grainLocked: false, process: "saw" },
+      { name: "Stand", lengthUm: 150_000, widthUm: 80_000, materialId: mdf.id, quantity: 2, grainLocked: true, process: "saw" },
+    ]);
+
+    await page.reload({ waitUntil: "networkidle" });
+    await cell(page, 1, "name").waitFor();
+    expect(await page.getByLabel("Name").inputValue()).toBe("Welcome sign with stand");
+    const shown = await page.locator(".ag-row").evaluateAll((rows) =>
+      rows
+        .sort((a, b) => Number(a.getAttribute("row-index")) - Number(b.getAttribute("row-index")))
+        .map((r) => ["name", "length", "width", "materialId", "quantity", "process"].map((c) => r.querySelector(`[col-id="${c}"]`)?.textContent)),
+    );
+    expect(shown).toEqual([
+      ["Sign face", "600 mm", "400 mm", "Birch 6 mm", "1", "Sawn"],
+      ["Stand", "150 mm", "80 mm", "MDF 6 mm", "2", "Sawn"],
+    ]);
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+
+  it("a part row goes with Delete on its × cell", async () => {
+    const [product] = await getDb().insert(t.products).values({ shopId: shop.id, name: "Two cards", priceMinor: 300 }).returning();
+    await getDb()
+      .insert(t.productParts)
+      .values([
+        { productId: product.id, materialId: birch.id, name: "Card A", lengthUm: 90_000, widthUm: 55_000 },
+        { productId: product.id, materialId: birch.id, name: "Card B", lengthUm: 90_000, widthUm: 55_000 },
+      ]);
+    const context = await browser.newContext({ viewport: VIEWPORTS.tablet });
+    const page = await context.newPage();
+    const errors = watchErrors(page);
+    await signInAs(page, app.url, shop.users.owner);
+    await page.goto(`${app.url}/catalogue/products/${product.id}`, { waitUntil: "networkidle" });
+    // Onto Card B's name (a click starts editing; Escape leaves the cell focused), then right to the × cell.
+    await cell(page, 1, "name").click();
+    await page.keyboard.press("Escape");
+    for (let i = 0; i < 7; i++) await page.keyboard.press("ArrowRight");
+    expect(await page.evaluate(() => document.activeElement?.getAttribute("col-id"))).toBe("remove");
+    await page.keyboard.press("Delete");
+    await expect.poll(() => page.locator(".ag-row").count()).toBe(1);
+    await page.getByRole("button", { name: "Save product" }).click();
+    await page.getByText("Two cards saved.").waitFor();
+    const parts = await getDb().select().from(t.productParts).where(eq(t.productParts.productId, product.id));
+    expect(parts.map((p) => p.name)).toEqual(["Card A"]);
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+
+  it("the planner sees the shop settings read-only", async () => {
+    const context = await browser.newContext({ viewport: VIEWPORTS.tablet });
+    const page = await context.newPage();
+    const errors = watchErrors(page);
+    await signInAs(page, app.url, shop.users.planner);
+    await page.goto(`${app.url}/settings`, { waitUntil: "networkidle" });
+    await page.getByRole("heading", { level: 1, name: "Shop settings" }).waitFor();
+    await page.getByText("Read only: these are set by the shop's owner.").waitFor();
+    await page.getByText("Default kerf").waitFor();
+    expect(await page.getByTestId("settings-read-only").locator("dd").first().textContent()).toBe("Millimetres (600 mm)");
+    expect(await page.locator("main input, main select").count()).toBe(0);
+    expect(await page.getByRole("button", { name: "Save settings" }).count()).toBe(0);
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+});
