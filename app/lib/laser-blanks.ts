@@ -144,6 +144,9 @@ const HAIRLINE_MM = 0.1;
 /** Rough advance of one character of a sans-serif face, in ems; enough to keep a text inside its item. */
 const CHAR_ADVANCE_EM = 0.6;
 const MAX_FONT_MM = 12;
+const LINE_HEIGHT_EM = 1.2;
+/** below this a one-line text is hard to read once engraved, so a name of several words wraps */
+const WRAP_BELOW_MM = 6;
 
 /** Escapes XML's special characters and drops control characters XML 1.0 cannot carry; keeps all other Unicode. */
 export function escapeXml(text: string): string {
@@ -166,10 +169,33 @@ function round2(value: number): string {
   return String(Math.round(value * 100) / 100);
 }
 
-/** The font size (mm) at which `text` fits a box along `alongMm` and across `acrossMm`, with some air. */
-function fittingFontMm(text: string, alongMm: number, acrossMm: number): number {
-  const chars = Math.max(1, [...text].length);
-  return Math.min(MAX_FONT_MM, (0.85 * alongMm) / (chars * CHAR_ADVANCE_EM), 0.5 * acrossMm);
+/** The font size (mm) at which `lines` fit a box along `alongMm` and across `acrossMm`, with some air. */
+function fittingFontMm(lines: string[], alongMm: number, acrossMm: number): number {
+  const chars = Math.max(1, ...lines.map((line) => [...line].length));
+  // One line may take half the item's depth; a block of lines three quarters of it.
+  const byDepth = lines.length === 1 ? 0.5 * acrossMm : (0.75 * acrossMm) / (1 + (lines.length - 1) * LINE_HEIGHT_EM);
+  return Math.min(MAX_FONT_MM, (0.85 * alongMm) / (chars * CHAR_ADVANCE_EM), byDepth);
+}
+
+/** A text of several words over two lines, split where the longer line is shortest; null for one word. */
+function splitInTwo(text: string): string[] | null {
+  const words = text.split(/\s+/).filter(Boolean);
+  let best: string[] | null = null;
+  const longest = (lines: string[]) => Math.max(...lines.map((line) => [...line].length));
+  for (let i = 1; i < words.length; i++) {
+    const pair = [words.slice(0, i).join(" "), words.slice(i).join(" ")];
+    if (!best || longest(pair) < longest(best)) best = pair;
+  }
+  return best;
+}
+
+/** One line, or two when a long name would engrave too small on one line and much larger on two. */
+function labelLayout(label: string, alongMm: number, acrossMm: number): { lines: string[]; font: number } {
+  const single = { lines: [label], font: fittingFontMm([label], alongMm, acrossMm) };
+  const pair = splitInTwo(label);
+  if (!pair) return single;
+  const double = { lines: pair, font: fittingFontMm(pair, alongMm, acrossMm) };
+  return single.font < WRAP_BELOW_MM && double.font > single.font * 1.25 ? double : single;
 }
 
 /**
@@ -189,16 +215,21 @@ export function blankSvg(blank: LaserBlank, title: string): string {
     const widthItemMm = umToMm(item.widthUm);
     // Run the text along the item's longer side so it can be as large as possible.
     const upright = widthItemMm > lengthItemMm;
-    const font = upright ? fittingFontMm(label, widthItemMm, lengthItemMm) : fittingFontMm(label, lengthItemMm, widthItemMm);
+    const { lines, font } = upright ? labelLayout(label, widthItemMm, lengthItemMm) : labelLayout(label, lengthItemMm, widthItemMm);
     const cx = umToMm(x + item.lengthUm / 2);
     const cy = umToMm(y + item.widthUm / 2);
     // A baseline about 0.35 em below the centre puts the text's middle at the centre without relying on
     // dominant-baseline, which some laser software ignores.
     const turn = upright ? ` transform="rotate(-90 ${round2(cx)} ${round2(cy)})"` : "";
+    const firstBaseline = cy - ((lines.length - 1) * font * LINE_HEIGHT_EM) / 2 + 0.35 * font;
+    const content =
+      lines.length === 1
+        ? escapeXml(label)
+        : lines.map((line, i) => `<tspan x="${round2(cx)}" dy="${i === 0 ? 0 : round2(font * LINE_HEIGHT_EM)}">${escapeXml(line)}</tspan>`).join("");
     return [
       `  <g>`,
       `    <rect x="${mm(x)}" y="${mm(y)}" width="${mm(item.lengthUm)}" height="${mm(item.widthUm)}" fill="none" stroke="#000000" stroke-width="${HAIRLINE_MM}"/>`,
-      `    <text x="${round2(cx)}" y="${round2(cy + 0.35 * font)}" font-family="sans-serif" font-size="${round2(font)}" text-anchor="middle" fill="#000000"${turn}>${escapeXml(label)}</text>`,
+      `    <text x="${round2(cx)}" y="${round2(firstBaseline)}" font-family="sans-serif" font-size="${round2(font)}" text-anchor="middle" fill="#000000"${turn}>${content}</text>`,
       `  </g>`,
     ].join("\n");
   });

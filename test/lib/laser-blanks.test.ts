@@ -183,6 +183,14 @@ describe("blankSvg", () => {
     expect(svg).toMatch(/<text [^>]*transform="rotate\(-90 123\.5 352\)"[^>]*>Zoë Nguyễn</);
   });
 
+  it("wraps a long name of several words over two lines rather than engraving it tiny", () => {
+    const long = blankSvg({ ...blank, items: [{ ...blank.items[0], text: "Bartholomew & Fitzwilliam-Smythe" }] }, "Blank");
+    // One line: 0.85 · 90 / (32 · 0.6) = 4.0 mm; two lines, the longer "Fitzwilliam-Smythe" of 18 characters:
+    // 0.85 · 90 / (18 · 0.6) = 7.08 mm, 1.2 em = 8.5 mm apart.
+    expect(long).toMatch(/font-size="7\.08"/);
+    expect(long).toMatch(/<tspan [^>]*>Bartholomew &amp;<\/tspan><tspan [^>]*dy="8\.5">Fitzwilliam-Smythe<\/tspan>/);
+  });
+
   it("is well formed: every tag that opens is closed", () => {
     const body = svg.replace(/^<\?xml[^>]*\?>/, "");
     const stack: string[] = [];
