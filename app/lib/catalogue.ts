@@ -10,7 +10,7 @@ export type MaterialKind = (typeof MATERIAL_KINDS)[number];
 export const MATERIAL_KIND_LABELS: Record<MaterialKind, string> = { plywood: "Plywood", mdf: "MDF", acrylic: "Acrylic", hardwood: "Hardwood", other: "Other" };
 
 export const GRAINS = ["length", "none"] as const;
-export const GRAIN_LABELS: Record<(typeof GRAINS)[number], string> = { length: "Along the length", none: "None" };
+export const GRAIN_LABELS: Record<(typeof GRAINS)[number], string> = { length: "Lengthwise", none: "None" };
 
 export const PROCESSES = ["saw", "laser"] as const;
 export type Process = (typeof PROCESSES)[number];

@@ -48,7 +48,7 @@ export const SETTINGS_GROUPS: SettingsGroup[] = [
   },
   {
     title: "Saw capacities",
-    about: "Cuts beyond these are flagged on the set-up sheet.",
+    about: "What the fence, the sled and its stop block can take.",
     lengths: [
       { key: "ripMaxUm", label: "Widest rip at the fence", hint: "From the blade to the fence at its furthest.", limits: { min: mm(10), max: mm(3000) } },
       { key: "sledWidthMaxUm", label: "Widest piece on the sled", hint: "", limits: { min: mm(10), max: mm(3000) } },
