@@ -93,7 +93,7 @@ export function MaterialCard({ material, unit, currency, canWrite, actionData }:
       )}
 
       {canWrite && (
-        <div className="flex flex-col gap-3 lg:flex-row">
+        <div className="flex flex-col gap-3 lg:flex-row lg:items-start">
           <details open={Boolean(addingPanel)} className="flex-1 rounded-md border border-line p-3">
             <summary className="cursor-pointer font-medium">Add a stock panel</summary>
             <div className="mt-3">
