@@ -24,6 +24,11 @@ app.use((req, _res, next) => {
 app.all("/{*splat}", createRequestHandler({ build, mode: process.env.NODE_ENV }));
 
 const server = app.listen(port, host, () => console.log(`Stopwise listening on http://${host}:${port}`));
+
+// Plans run beside the web server: the engine itself runs in a worker thread per plan, so requests
+// keep being answered. STOPWISE_PLAN_RUNNER=0 leaves it to runners elsewhere.
+const runner = process.env.STOPWISE_PLAN_RUNNER === "0" ? null : await import("../app/jobs/plan-runner.server");
+await runner?.startPlanRunner().catch((error) => console.error("The plan runner did not start:", error.message));
 server.on("error", (error: NodeJS.ErrnoException) => {
   console.error(error.code === "EADDRINUSE" ? `Port ${port} on ${host} is already taken.` : error.message);
   process.exit(1);
@@ -31,7 +36,10 @@ server.on("error", (error: NodeJS.ErrnoException) => {
 
 function stop(signal: string) {
   console.log(`${signal}: finishing open requests, then stopping.`);
-  server.close(() => process.exit(0));
+  server.close(async () => {
+    await runner?.stopPlanRunner().catch(() => {});
+    process.exit(0);
+  });
   server.closeIdleConnections();
   // Requests still running after 5 s are cut off rather than holding the stop.
   setTimeout(() => process.exit(0), 5000).unref();

@@ -57,3 +57,18 @@ export function orderConfirmationEmail(input: {
     ].join("\n"),
   };
 }
+
+export function releaseEmail(input: { name: string; code: string; material: string; sheets: number; setups: number; link: string }) {
+  return {
+    subject: `Batch ${input.code} (${input.material}) is ready for the saw`,
+    text: [
+      `Hello ${input.name},`,
+      "",
+      `batch ${input.code} of ${input.material} has been released: ${input.sheets} panel${input.sheets === 1 ? "" : "s"} to pull, ${input.setups} fence and stop setting${input.setups === 1 ? "" : "s"}.`,
+      "The set-up sheet and the panels to pull are here:",
+      input.link,
+      "",
+      "Work to the saw maker's manual and the shop's own rules: guard and riving knife on, push sticks ready.",
+    ].join("\n"),
+  };
+}

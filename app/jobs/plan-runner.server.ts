@@ -1,0 +1,131 @@
+// Runs queued plans: takes a plan job from the queue, builds the packing job from the batch, runs the
+// engine in a worker thread, reports progress to the plan row, and saves the plan once the validator
+// passes it. Started by bin/serve.ts next to the web server (and by tests); more runners may run on
+// other machines against the same database.
+import { and, eq, inArray } from "drizzle-orm";
+import { Worker } from "node:worker_threads";
+import { batches, plans } from "../../db/schema";
+import { getDb } from "~/db.server";
+import { validatePlan } from "~/lib/packing";
+import type { Plan } from "~/lib/packing/types";
+import { getShop } from "~/models/shops.server";
+import { buildPackingJob } from "~/models/plan-job.server";
+import type { PlanResult } from "~/models/plans.server";
+import { PLAN_QUEUE, queue, type PlanJobData } from "./queue.server";
+
+const PROGRESS_EVERY_MS = 250;
+const workerUrl = new URL("./pack-worker-entry.mjs", import.meta.url);
+
+export async function startPlanRunner(): Promise<void> {
+  const boss = await queue();
+  await boss.work<PlanJobData>(PLAN_QUEUE, { pollingIntervalSeconds: 0.5, batchSize: 1 }, async ([job]) => {
+    await runPlan(job.data.planId);
+  });
+}
+
+export async function stopPlanRunner(): Promise<void> {
+  const boss = await queue();
+  await boss.offWork(PLAN_QUEUE);
+}
+
+type Outcome = { kind: "done"; plan: Plan } | { kind: "cancelled" } | { kind: "failed"; reason: string };
+
+/** Runs one plan to its end; never throws for a plan's own failure (it is recorded on the plan). */
+export async function runPlan(planId: string): Promise<void> {
+  const db = getDb();
+  const [plan] = await db
+    .update(plans)
+    .set({ status: "running", startedAt: new Date() })
+    .where(and(eq(plans.id, planId), eq(plans.status, "queued")))
+    .returning();
+  if (!plan) return; // cancelled while queued, or taken by another runner
+
+  let outcome: Outcome;
+  let stockRefs: PlanResult["stockRefs"] = {};
+  let blanks = 0;
+  try {
+    const [batch] = await db.select().from(batches).where(eq(batches.id, plan.batchId));
+    const shop = await getShop(plan.shopId);
+    const built = await buildPackingJob(shop, batch, plan.settings);
+    stockRefs = built.stockRefs;
+    blanks = built.cutList.blanks.length;
+    if (built.job.parts.length === 0) outcome = { kind: "failed", reason: "The batch has no parts to cut." };
+    else if (built.job.stock.length === 0) outcome = { kind: "failed", reason: "The material has no stock panels: add its sheet sizes in the catalogue first." };
+    else {
+      outcome = await runInWorker(planId, built.job);
+      if (outcome.kind === "done") {
+        const check = validatePlan(built.job, outcome.plan);
+        if (!check.ok) outcome = { kind: "failed", reason: `The engine's plan did not pass the validator: ${check.errors.slice(0, 3).join("; ")}` };
+      }
+    }
+  } catch (error) {
+    outcome = { kind: "failed", reason: error instanceof Error ? error.message : String(error) };
+  }
+  await finish(plan.id, plan.batchId, outcome, stockRefs, blanks);
+}
+
+function runInWorker(planId: string, job: import("~/lib/packing/types").Job): Promise<Outcome> {
+  return new Promise((resolve) => {
+    const started = Date.now();
+    let bestSheets: number | null = null;
+    let settled = false;
+    const worker = new Worker(workerUrl, { workerData: { job } });
+    const done = (outcome: Outcome) => {
+      if (settled) return;
+      settled = true;
+      clearInterval(ticker);
+      resolve(outcome);
+    };
+    // Every tick: write the progress, and stop the engine if the planner cancelled.
+    const ticker = setInterval(async () => {
+      const [row] = await getDb()
+        .update(plans)
+        .set({ progress: { elapsedMs: Date.now() - started, bestSheets } })
+        .where(and(eq(plans.id, planId), eq(plans.status, "running")))
+        .returning({ id: plans.id })
+        .catch(() => [{ id: planId }]); // a database hiccup is no reason to stop the engine
+      if (!row) {
+        await worker.terminate();
+        done({ kind: "cancelled" });
+      }
+    }, PROGRESS_EVERY_MS);
+    worker.on("message", (message: { type: "progress"; bestSheets: number } | { type: "done"; plan: Plan }) => {
+      if (message.type === "progress") bestSheets = message.bestSheets;
+      else done({ kind: "done", plan: message.plan });
+    });
+    worker.on("error", (error) => done({ kind: "failed", reason: `The engine stopped with an error: ${error.message}` }));
+    worker.on("exit", (code) => done({ kind: "failed", reason: `The engine's worker ended unexpectedly (exit code ${code}).` }));
+  });
+}
+
+async function finish(planId: string, batchId: string, outcome: Outcome, stockRefs: PlanResult["stockRefs"], blanks: number) {
+  const db = getDb();
+  const stillRunning = and(eq(plans.id, planId), eq(plans.status, "running"));
+  if (outcome.kind === "cancelled") return; // the row already says cancelled
+  if (outcome.kind === "failed") {
+    await db.update(plans).set({ status: "failed", error: outcome.reason, finishedAt: new Date() }).where(stillRunning);
+    return;
+  }
+  const { plan } = outcome;
+  const costMinor = plan.sheets.reduce((sum, sheet) => sum + (stockRefs[sheet.stockId]?.costMinor ?? 0), 0);
+  const result: PlanResult = { plan, stockRefs, blanks };
+  await db.transaction(async (tx) => {
+    const saved = await tx
+      .update(plans)
+      .set({
+        status: "done",
+        result,
+        sheets: plan.metrics.sheets,
+        yieldPermille: Math.round(plan.metrics.yield * 1000),
+        costMinor,
+        setups: plan.metrics.setups,
+        offcutAreaMm2: Math.round(plan.metrics.offcutArea),
+        progress: { elapsedMs: Math.round(plan.metrics.elapsedMs), bestSheets: plan.metrics.sheets },
+        finishedAt: new Date(),
+        error: plan.unplaced.length ? `${plan.unplaced.reduce((n, u) => n + u.quantity, 0)} parts could not be placed: ${plan.unplaced.map((u) => u.reason).join("; ")}` : null,
+      })
+      .where(stillRunning)
+      .returning({ id: plans.id });
+    if (saved.length) await tx.update(batches).set({ status: "planned" }).where(and(eq(batches.id, batchId), inArray(batches.status, ["open"])));
+  });
+}

@@ -1,0 +1,81 @@
+import { and, eq, inArray } from "drizzle-orm";
+import { offcuts, stockPanels, type PlanSettings } from "../../db/schema";
+import { getDb } from "~/db.server";
+import { mergeBatchParts, type MergedPart } from "~/lib/batch-parts";
+import { nestLaserParts, type LaserBlank } from "~/lib/laser-blanks";
+import { umToMm } from "~/lib/packing";
+import type { Job, PartInput, StockInput } from "~/lib/packing/types";
+import { batchSources } from "./batches.server";
+import type { ShopSettings } from "./shops.server";
+
+export const LASER_BLANK_PART = "laser-blank";
+
+export type BatchCutList = { sawn: MergedPart[]; laser: MergedPart[]; blanks: LaserBlank[]; laserUnplaced: { key: string; name: string; quantity: number; reason: string }[] };
+
+/** What a batch cuts: its merged sawn parts, and its laser items nested onto bed-sized blanks. */
+export async function batchCutList(batchId: string, shop: ShopSettings): Promise<BatchCutList> {
+  const merged = mergeBatchParts(await batchSources(batchId));
+  const laser = merged.filter((p) => p.process === "laser");
+  const nested = laser.length
+    ? nestLaserParts(laser, { bedLengthUm: shop.laserBedLengthUm, bedWidthUm: shop.laserBedWidthUm, spacingUm: shop.laserSpacingUm, marginUm: shop.laserSpacingUm })
+    : { blanks: [], unplaced: [] };
+  return { sawn: merged.filter((p) => p.process === "saw"), laser, blanks: nested.blanks, laserUnplaced: nested.unplaced };
+}
+
+export type StockRef = { kind: "panel" | "offcut"; id: string; costMinor: number; lengthUm: number; widthUm: number; grain: "length" | "none" };
+
+/**
+ * The packing job for a batch: its sawn parts plus one part row for the laser blanks (all the same
+ * size, so one fence and one stop setting cut them all), on the material's full sheets and the
+ * racked offcuts the planner allowed. Costs are minor units.
+ */
+export async function buildPackingJob(shop: ShopSettings, batch: { id: string; materialId: string }, settings: PlanSettings) {
+  const db = getDb();
+  const cutList = await batchCutList(batch.id, shop);
+  const [panels, rack] = await Promise.all([
+    db.select().from(stockPanels).where(and(eq(stockPanels.shopId, shop.id), eq(stockPanels.materialId, batch.materialId))),
+    settings.offcutIds.length
+      ? db.select().from(offcuts).where(and(eq(offcuts.shopId, shop.id), eq(offcuts.materialId, batch.materialId), eq(offcuts.status, "racked"), inArray(offcuts.id, settings.offcutIds)))
+      : Promise.resolve([]),
+  ]);
+  const stockRefs: Record<string, StockRef> = {};
+  const stock: StockInput[] = [];
+  for (const p of panels) {
+    const id = `panel:${p.id}`;
+    stockRefs[id] = { kind: "panel", id: p.id, costMinor: p.costMinor, lengthUm: p.lengthUm, widthUm: p.widthUm, grain: p.grain };
+    // Sheets can be bought: the plan is not capped by the count on hand; release checks it.
+    stock.push({ id, length: umToMm(p.lengthUm), width: umToMm(p.widthUm), quantity: null, cost: p.costMinor, grain: p.grain, trimmed: true });
+  }
+  const costPerUm2 = cheapestCostPerArea(panels);
+  for (const o of rack) {
+    const id = `offcut:${o.id}`;
+    const costMinor = Math.round(costPerUm2 * o.lengthUm * o.widthUm);
+    stockRefs[id] = { kind: "offcut", id: o.id, costMinor, lengthUm: o.lengthUm, widthUm: o.widthUm, grain: o.grain };
+    stock.push({ id, length: umToMm(o.lengthUm), width: umToMm(o.widthUm), quantity: 1, cost: costMinor, grain: o.grain, trimmed: false });
+  }
+
+  const parts: PartInput[] = cutList.sawn.map((p) => ({ id: p.key, length: umToMm(p.lengthUm), width: umToMm(p.widthUm), quantity: p.quantity, rotate: !p.grainLocked }));
+  if (cutList.blanks.length) {
+    const grainLocked = cutList.laser.some((p) => p.grainLocked);
+    parts.push({ id: LASER_BLANK_PART, length: umToMm(shop.laserBedLengthUm), width: umToMm(shop.laserBedWidthUm), quantity: cutList.blanks.length, rotate: !grainLocked });
+  }
+  const job: Job = {
+    kerf: settings.kerfMm,
+    trim: settings.trimMm,
+    stages: settings.stages,
+    objective: settings.objective,
+    timeLimitMs: settings.timeLimitMs,
+    seed: settings.seed,
+    stock,
+    parts,
+    minOffcut: { shortSide: umToMm(shop.minOffcutShortUm), area: shop.minOffcutAreaMm2 },
+    limits: { ripMax: umToMm(shop.ripMaxUm), sledWidthMax: umToMm(shop.sledWidthMaxUm), stopMin: umToMm(shop.stopMinUm), stopMax: umToMm(shop.stopMaxUm) },
+  };
+  return { job, stockRefs, cutList };
+}
+
+/** Offcuts are valued at the material's cheapest full-sheet price per area (the ledger uses the same rule). */
+export function cheapestCostPerArea(panels: { costMinor: number; lengthUm: number; widthUm: number }[]): number {
+  const rates = panels.map((p) => p.costMinor / (p.lengthUm * p.widthUm));
+  return rates.length ? Math.min(...rates) : 0;
+}

@@ -1,0 +1,361 @@
+import { useState } from "react";
+import * as v from "valibot";
+import { data, Form, Link, redirect } from "react-router";
+import useSWR from "swr";
+import type { Route } from "./+types/batches.$batchId";
+import { requirePermission } from "~/auth.server";
+import { BatchBadge } from "~/components/batch-badge";
+import { FormAlert, SelectField, SubmitButton } from "~/components/forms";
+import { PageHeader } from "~/components/page-header";
+import { PlanCompare, PlanCard } from "~/components/plan-cards";
+import { formatDate } from "~/lib/dates";
+import { releaseEmail } from "~/lib/emails";
+import { parseForm } from "~/lib/forms";
+import { can } from "~/lib/permissions";
+import { PlanSettingsSchema } from "~/lib/plan-settings";
+import { formatLength, formatSize } from "~/lib/units";
+import { publicOrigin, sendMail } from "~/mail.server";
+import { BatchStateError, getBatch, holdLine, moveLine, siblingBatches } from "~/models/batches.server";
+import { rackedOffcuts } from "~/models/rack.server";
+import { batchCutList } from "~/models/plan-job.server";
+import { cancelPlan, listPlans, PlanStateError, releasePlan, requestPlan, sawyersOf, type PlanSummary } from "~/models/plans.server";
+import { getShop } from "~/models/shops.server";
+
+const Uuid = v.pipe(v.string(), v.uuid());
+
+export async function loader(args: Route.LoaderArgs) {
+  const user = requirePermission(args, "batches:read");
+  const batch = v.is(Uuid, args.params.batchId) ? await getBatch(user.shopId, args.params.batchId) : null;
+  if (!batch) throw data("No such batch in this shop.", { status: 404 });
+  const shop = await getShop(user.shopId);
+  const [cutList, plans, siblings, offcuts] = await Promise.all([
+    batchCutList(batch.id, shop),
+    listPlans(user.shopId, batch.id),
+    siblingBatches(user.shopId, batch.id, batch.materialId),
+    rackedOffcuts(user.shopId, batch.materialId),
+  ]);
+  const unit = shop.displayUnit;
+  const parts = cutList.sawn.map((p) => ({
+    key: p.key,
+    name: p.name,
+    size: formatSize(p.lengthUm, p.widthUm, unit),
+    grainLocked: p.grainLocked,
+    quantity: p.quantity,
+    origins: p.origins.map((o) => `#${o.orderNumber} ${o.customerName} · ${o.productName}${o.text ? ` · ${o.text}` : ""}`),
+  }));
+  return {
+    batch,
+    parts,
+    laser: { items: cutList.laser.reduce((n, p) => n + p.quantity, 0), blanks: cutList.blanks.length, bed: formatSize(shop.laserBedLengthUm, shop.laserBedWidthUm, unit), unplaced: cutList.laserUnplaced },
+    plans,
+    siblings,
+    offcuts: offcuts.map((o) => ({ id: o.id, label: `${formatSize(o.lengthUm, o.widthUm, unit)}${o.location ? ` · ${o.location}` : ""}` })),
+    defaults: { kerf: shop.kerfUm / 1000, trim: shop.edgeTrimUm / 1000 },
+    unit,
+    currency: shop.currency,
+    canWrite: can(user.role, "batches:write"),
+  };
+}
+
+const ActionSchema = v.variant("intent", [
+  v.object({ intent: v.literal("move-line"), lineId: Uuid, targetBatchId: v.pipe(v.string("Choose a batch."), v.uuid("Choose a batch.")) }),
+  v.object({ intent: v.literal("hold-line"), lineId: Uuid }),
+  v.object({ intent: v.literal("run-plan") }),
+  v.object({ intent: v.literal("cancel-plan"), planId: Uuid }),
+  v.object({ intent: v.literal("release"), planId: Uuid }),
+], "Unknown action.");
+
+export async function action(args: Route.ActionArgs) {
+  const user = requirePermission(args, "batches:write");
+  const batchId = args.params.batchId;
+  if (!v.is(Uuid, batchId)) throw data("No such batch in this shop.", { status: 404 });
+  const form = await args.request.formData();
+  const parsed = parseForm(ActionSchema, form);
+  if (!parsed.ok) return data({ errors: parsed.errors, notice: null }, { status: 400 });
+  const input = parsed.data;
+  const notFound = () => data("No such batch, line or plan in this shop.", { status: 404 });
+  try {
+    switch (input.intent) {
+      case "move-line":
+        if (!(await moveLine(user.shopId, batchId, input.lineId, input.targetBatchId))) throw notFound();
+        break;
+      case "hold-line":
+        if (!(await holdLine(user.shopId, batchId, input.lineId))) throw notFound();
+        break;
+      case "run-plan": {
+        if (!(await getBatch(user.shopId, batchId))) throw notFound();
+        const settings = parseForm(PlanSettingsSchema, form);
+        if (!settings.ok) return data({ errors: settings.errors, notice: null }, { status: 400 });
+        await requestPlan(user.shopId, batchId, { ...settings.data, offcutIds: form.getAll("offcutIds").map(String).filter((id) => v.is(Uuid, id)) });
+        break;
+      }
+      case "cancel-plan":
+        if (!(await cancelPlan(user.shopId, batchId, input.planId))) return data({ errors: { form: "That plan has already finished." }, notice: null }, { status: 409 });
+        break;
+      case "release": {
+        const released = await releasePlan(user.shopId, batchId, input.planId);
+        const batch = await getBatch(user.shopId, batchId);
+        const link = `${publicOrigin(args.request)}/saw?batch=${batchId}`;
+        const failed: string[] = [];
+        for (const sawyer of await sawyersOf(user.shopId)) {
+          await sendMail({ to: sawyer.email, ...releaseEmail({ name: sawyer.name, code: batch!.code, material: batch!.materialName, sheets: released.sheets, setups: released.setups, link }) }).catch(() => failed.push(sawyer.email));
+        }
+        if (failed.length) return { errors: {} as Record<string, string>, notice: `Released. The e-mail to ${failed.join(", ")} could not be sent; tell them yourself.` };
+        break;
+      }
+    }
+  } catch (error) {
+    if (error instanceof BatchStateError || error instanceof PlanStateError) return data({ errors: { form: error.message }, notice: null }, { status: 409 });
+    throw error;
+  }
+  return redirect(`/batches/${batchId}`);
+}
+
+const fetchPlans = async (url: string): Promise<{ plans: PlanSummary[] }> => {
+  const res = await fetch(url, { headers: { Accept: "application/json" } });
+  if (!res.ok) throw new Error(`Plans could not be loaded (${res.status}).`);
+  return res.json();
+};
+
+export default function BatchPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { batch, parts, laser, siblings, offcuts, defaults, unit, currency, canWrite } = loaderData;
+  const errors: Record<string, string> = actionData?.errors ?? {};
+  const editable = canWrite && (batch.status === "open" || batch.status === "planned");
+  // Poll while a plan is queued or running; otherwise the list stays as loaded.
+  const { data: live } = useSWR(`/api/batches/${batch.id}/plans`, fetchPlans, {
+    fallbackData: { plans: loaderData.plans },
+    refreshInterval: (latest) => (latest?.plans.some((p) => p.status === "queued" || p.status === "running") ? 700 : 0),
+  });
+  const plans = live?.plans ?? loaderData.plans;
+  const done = plans.filter((p) => p.status === "done");
+  const [compare, setCompare] = useState<[string, string]>(["", ""]);
+
+  return (
+    <div className="space-y-8">
+      <div className="flex flex-wrap items-start justify-between gap-4">
+        <PageHeader eyebrow={`Batch · ${batch.materialName}`} title={batch.code}>
+          Due by {formatDate(batch.dueBy)} · {batch.lines.length} order line{batch.lines.length === 1 ? "" : "s"}
+        </PageHeader>
+        <BatchBadge status={batch.status} />
+      </div>
+      {errors.form && <FormAlert>{errors.form}</FormAlert>}
+      {actionData?.notice && <FormAlert tone="warn">{actionData.notice}</FormAlert>}
+
+      <section className="space-y-3">
+        <h2 className="text-xl font-semibold">Parts to cut</h2>
+        {parts.length === 0 && laser.blanks === 0 ? (
+          <p className="text-muted">This batch has no parts.</p>
+        ) : (
+          <div className="overflow-x-auto rounded-lg border border-line bg-card">
+            <table className="w-full min-w-[36rem] text-left text-sm">
+              <thead className="border-b border-line text-xs uppercase tracking-wider text-muted">
+                <tr>
+                  <th className="px-4 py-3">Part</th>
+                  <th className="px-4 py-3">Finished size</th>
+                  <th className="px-4 py-3">Grain</th>
+                  <th className="px-4 py-3 text-right">Qty</th>
+                  <th className="px-4 py-3">For</th>
+                </tr>
+              </thead>
+              <tbody className="divide-y divide-line">
+                {parts.map((p) => (
+                  <tr key={p.key} data-part={p.key}>
+                    <td className="px-4 py-3 font-medium">{p.name}</td>
+                    <td className="px-4 py-3 tabular-nums">{p.size}</td>
+                    <td className="px-4 py-3">{p.grainLocked ? "along the length" : "free"}</td>
+                    <td className="px-4 py-3 text-right font-semibold tabular-nums">{p.quantity}</td>
+                    <td className="px-4 py-3">
+                      <details>
+                        <summary className="cursor-pointer text-muted">{p.origins.length} from {new Set(p.origins.map((o) => o.split(" ·")[0])).size} order(s)</summary>
+                        <ul className="mt-1 max-h-48 space-y-0.5 overflow-y-auto text-xs">
+                          {p.origins.map((o, i) => (
+                            <li key={i}>{o}</li>
+                          ))}
+                        </ul>
+                      </details>
+                    </td>
+                  </tr>
+                ))}
+                {laser.blanks > 0 && (
+                  <tr data-part="laser-blank">
+                    <td className="px-4 py-3 font-medium">Laser blank</td>
+                    <td className="px-4 py-3 tabular-nums">{laser.bed}</td>
+                    <td className="px-4 py-3">—</td>
+                    <td className="px-4 py-3 text-right font-semibold tabular-nums">{laser.blanks}</td>
+                    <td className="px-4 py-3 text-muted">{laser.items} laser-cut items</td>
+                  </tr>
+                )}
+              </tbody>
+            </table>
+          </div>
+        )}
+        {laser.blanks > 0 && (
+          <div className="rounded-lg border border-line bg-card p-4 text-sm">
+            <p>
+              {laser.items} laser-cut items are nested on {laser.blanks} blank{laser.blanks === 1 ? "" : "s"} of {laser.bed}. Files for the laser (SVG, true size):
+            </p>
+            <ul className="mt-2 flex flex-wrap gap-2">
+              {Array.from({ length: laser.blanks }, (_, i) => (
+                <li key={i}>
+                  <a href={`/batches/${batch.id}/blanks/${i + 1}`} download className="inline-block rounded-md border border-line bg-white px-3 py-1.5 hover:border-edge">
+                    Blank {i + 1}.svg
+                  </a>
+                </li>
+              ))}
+            </ul>
+          </div>
+        )}
+        {laser.unplaced.map((u) => (
+          <FormAlert key={u.key} tone="warn">
+            {u.quantity} × {u.name}: {u.reason}
+          </FormAlert>
+        ))}
+      </section>
+
+      <section className="space-y-3">
+        <h2 className="text-xl font-semibold">Order lines</h2>
+        <ul className="divide-y divide-line rounded-lg border border-line bg-card">
+          {batch.lines.map((l) => (
+            <li key={l.lineId} className="flex flex-wrap items-center justify-between gap-3 px-4 py-3">
+              <span>
+                <Link to={`/orders/${l.orderId}`} className="font-semibold text-edge hover:underline">
+                  #{l.orderNumber}
+                </Link>{" "}
+                {l.customerName}: {l.quantity} × {l.productName} <span className="text-sm text-muted">· due {formatDate(l.dueDate)}</span>
+              </span>
+              {editable && (
+                <span className="flex flex-wrap items-end gap-2">
+                  {siblings.length > 0 && (
+                    <Form method="post" className="flex items-end gap-2">
+                      <input type="hidden" name="intent" value="move-line" />
+                      <input type="hidden" name="lineId" value={l.lineId} />
+                      <SelectField label={`Move #${l.orderNumber} ${l.productName} to`} name="targetBatchId" id={`move-${l.lineId}`} className="[&>label]:sr-only">
+                        {siblings.map((s) => (
+                          <option key={s.id} value={s.id}>
+                            {s.code}
+                          </option>
+                        ))}
+                      </SelectField>
+                      <button type="submit" className="min-h-11 rounded-md border border-line bg-white px-3 text-sm font-medium hover:border-edge">
+                        Move
+                      </button>
+                    </Form>
+                  )}
+                  <Form method="post">
+                    <input type="hidden" name="intent" value="hold-line" />
+                    <input type="hidden" name="lineId" value={l.lineId} />
+                    <button type="submit" className="min-h-11 rounded-md border border-line bg-white px-3 text-sm font-medium hover:border-edge">
+                      Hold back
+                    </button>
+                  </Form>
+                </span>
+              )}
+            </li>
+          ))}
+        </ul>
+        {editable && <p className="text-sm text-muted">Moving or holding a line discards this batch's plans: they no longer match its parts.</p>}
+      </section>
+
+      {editable && (
+        <section className="space-y-4 rounded-lg border border-line bg-card p-5">
+          <h2 className="text-xl font-semibold">Plan the panels</h2>
+          <Form method="post" className="grid gap-4 md:grid-cols-3" noValidate>
+            <input type="hidden" name="intent" value="run-plan" />
+            <PlanSettingsFields defaults={defaults} errors={errors} offcuts={offcuts} unit={unit} />
+            <SubmitButton className="md:col-span-3 md:w-fit" pendingText="Queueing…">
+              Run a plan
+            </SubmitButton>
+          </Form>
+        </section>
+      )}
+
+      <section className="space-y-3">
+        <h2 className="text-xl font-semibold">Plans</h2>
+        {plans.length === 0 && <p className="text-muted">No plans yet.</p>}
+        <ul className="grid gap-3 md:grid-cols-2">
+          {plans.map((p) => (
+            <li key={p.id}>
+              <PlanCard plan={p} batchId={batch.id} currency={currency} canWrite={editable} chosen={batch.chosenPlanId === p.id} />
+            </li>
+          ))}
+        </ul>
+        {done.length >= 2 && (
+          <div className="space-y-3 rounded-lg border border-line bg-card p-4">
+            <h3 className="font-semibold">Compare two plans</h3>
+            <div className="flex flex-wrap gap-3">
+              {[0, 1].map((side) => (
+                <SelectField key={side} label={side === 0 ? "First" : "Second"} name={`compare-${side}`} value={compare[side]} onChange={(e) => setCompare(side === 0 ? [e.target.value, compare[1]] : [compare[0], e.target.value])}>
+                  <option value="">Choose…</option>
+                  {done.map((p) => (
+                    <option key={p.id} value={p.id}>
+                      Plan {p.number}
+                    </option>
+                  ))}
+                </SelectField>
+              ))}
+            </div>
+            {compare[0] && compare[1] && <PlanCompare a={done.find((p) => p.id === compare[0])!} b={done.find((p) => p.id === compare[1])!} currency={currency} unit={unit} />}
+          </div>
+        )}
+      </section>
+      <p className="text-sm text-muted">A plan's cost is the stock it draws: full sheets at their catalogue price, racked offcuts at the material's cheapest price per area.</p>
+    </div>
+  );
+}
+
+function PlanSettingsFields({ defaults, errors, offcuts, unit }: { defaults: { kerf: number; trim: number }; errors: Record<string, string>; offcuts: { id: string; label: string }[]; unit: "mm" | "in" }) {
+  const input = "block w-full rounded-md border border-line bg-white px-3 py-2.5";
+  const err = (f: string) => errors[f] && <p className="text-sm font-medium text-bad">{errors[f]}</p>;
+  return (
+    <>
+      <label className="space-y-1 text-sm font-medium">
+        <span>Kerf (mm)</span>
+        <input name="kerfMm" inputMode="decimal" defaultValue={defaults.kerf} className={input} aria-invalid={errors.kerfMm ? true : undefined} />
+        {err("kerfMm")}
+      </label>
+      <label className="space-y-1 text-sm font-medium">
+        <span>Edge trim per side (mm)</span>
+        <input name="trimMm" inputMode="decimal" defaultValue={defaults.trim} className={input} aria-invalid={errors.trimMm ? true : undefined} />
+        {err("trimMm")}
+      </label>
+      <label className="space-y-1 text-sm font-medium">
+        <span>Time to search (seconds)</span>
+        <input name="seconds" inputMode="decimal" defaultValue="2" className={input} aria-invalid={errors.seconds ? true : undefined} />
+        {err("seconds")}
+      </label>
+      <label className="space-y-1 text-sm font-medium md:col-span-2">
+        <span>How the saw works the sheet</span>
+        <select name="stages" defaultValue="2" className={input}>
+          <option value="2">Rip strips along the length, then crosscut them on the sled</option>
+          <option value="3">Crosscut the sheet into panels first, then rip, then crosscut</option>
+          <option value="0">Any edge-to-edge cuts</option>
+        </select>
+        {err("stages")}
+      </label>
+      <label className="space-y-1 text-sm font-medium">
+        <span>Aim for</span>
+        <select name="objective" defaultValue="sheets" className={input}>
+          <option value="sheets">Fewest sheets</option>
+          <option value="setups">Fewest fence and stop settings (at most one sheet more)</option>
+        </select>
+        {err("objective")}
+      </label>
+      <fieldset className="space-y-2 md:col-span-3">
+        <legend className="text-sm font-medium">Racked offcuts the plan may use ({unit === "mm" ? "millimetres" : "inches"})</legend>
+        {offcuts.length === 0 ? (
+          <p className="text-sm text-muted">None of this material on the rack.</p>
+        ) : (
+          <div className="flex flex-wrap gap-3">
+            {offcuts.map((o) => (
+              <label key={o.id} className="flex min-h-11 items-center gap-2 rounded-md border border-line bg-white px-3 text-sm">
+                <input type="checkbox" name="offcutIds" value={o.id} defaultChecked className="h-5 w-5 accent-edge" />
+                {o.label}
+              </label>
+            ))}
+          </div>
+        )}
+      </fieldset>
+      <p className="text-sm text-muted md:col-span-3">Kerf and trim in millimetres; {formatLength(3200, "in")} is a full-kerf blade (3.2 mm).</p>
+    </>
+  );
+}

@@ -1,0 +1,145 @@
+import * as v from "valibot";
+import { data, Form, Link, redirect, useSearchParams } from "react-router";
+import type { Route } from "./+types/batches";
+import { requirePermission } from "~/auth.server";
+import { BatchBadge } from "~/components/batch-badge";
+import { Field, FormAlert, SubmitButton } from "~/components/forms";
+import { PageHeader } from "~/components/page-header";
+import { addDays, formatDate, isIsoDate, todayIso } from "~/lib/dates";
+import { parseForm } from "~/lib/forms";
+import { batchCode } from "~/lib/batches";
+import { can } from "~/lib/permissions";
+import { createBatches, listBatches, listHeldLines, proposeBatches, releaseHold } from "~/models/batches.server";
+
+export async function loader(args: Route.LoaderArgs) {
+  const user = requirePermission(args, "batches:read");
+  const dueByParam = new URL(args.request.url).searchParams.get("dueBy") ?? "";
+  const dueBy = isIsoDate(dueByParam) ? dueByParam : addDays(todayIso(), 21);
+  const canWrite = can(user.role, "batches:write");
+  const [batches, proposals, held] = await Promise.all([
+    listBatches(user.shopId),
+    canWrite ? proposeBatches(user.shopId, dueBy) : [],
+    canWrite ? listHeldLines(user.shopId) : [],
+  ]);
+  return { batches, proposals, held, dueBy, canWrite };
+}
+
+const ActionSchema = v.variant("intent", [
+  v.object({ intent: v.literal("create"), dueBy: v.pipe(v.string("Enter a date."), v.check(isIsoDate, "Enter the due-by date as a date, like 2026-12-20.")) }),
+  v.object({ intent: v.literal("unhold"), lineId: v.pipe(v.string(), v.uuid("Not a valid line.")), materialId: v.pipe(v.string(), v.uuid("Not a valid material.")) }),
+], "Unknown action.");
+
+export async function action(args: Route.ActionArgs) {
+  const user = requirePermission(args, "batches:write");
+  const form = await args.request.formData();
+  const parsed = parseForm(ActionSchema, form);
+  if (!parsed.ok) return data({ errors: parsed.errors }, { status: 400 });
+  if (parsed.data.intent === "unhold") {
+    if (!(await releaseHold(user.shopId, parsed.data.lineId, parsed.data.materialId))) throw data("No such held line in this shop.", { status: 404 });
+    return redirect(`/batches?dueBy=${form.get("dueBy") ?? ""}`);
+  }
+  const ids = await createBatches(user.shopId, parsed.data.dueBy);
+  if (ids.length === 0) return data({ errors: { dueBy: "Nothing confirmed is due by then that is not in a batch already." } }, { status: 400 });
+  return redirect(ids.length === 1 ? `/batches/${ids[0]}` : "/batches");
+}
+
+export default function Batches({ loaderData, actionData }: Route.ComponentProps) {
+  const { batches, proposals, held, dueBy, canWrite } = loaderData;
+  const errors: Record<string, string> = actionData?.errors ?? {};
+  const [params] = useSearchParams();
+  const lineCount = proposals.reduce((n, p) => n + p.lines.length, 0);
+  return (
+    <div className="space-y-8">
+      <PageHeader eyebrow="Planner" title="Batches">
+        What is due, grouped per material and thickness, laid out on panels and sent to the saw.
+      </PageHeader>
+
+      {canWrite && (
+        <section className="space-y-4 rounded-lg border border-line bg-card p-5" aria-labelledby="propose-heading">
+          <h2 id="propose-heading" className="text-xl font-semibold">Gather what is due</h2>
+          <Form method="get" className="flex flex-wrap items-end gap-3">
+            <Field label="Due by" name="dueBy" type="date" defaultValue={dueBy} className="w-48" />
+            <button type="submit" className="min-h-11 rounded-md border border-line bg-white px-4 font-medium hover:border-edge">
+              Show what is due
+            </button>
+          </Form>
+          {errors.dueBy && <FormAlert>{errors.dueBy}</FormAlert>}
+          {proposals.length === 0 ? (
+            <p className="text-muted">Every confirmed line due by {formatDate(dueBy)} is already in a batch or held back.</p>
+          ) : (
+            <>
+              <p className="text-muted">
+                {lineCount} order line{lineCount === 1 ? "" : "s"} due by {formatDate(dueBy)} would make {proposals.length} batch{proposals.length === 1 ? "" : "es"}, one per material:
+              </p>
+              <ul className="grid gap-3 md:grid-cols-2">
+                {proposals.map((p) => (
+                  <li key={p.materialId} className="rounded-md border border-line bg-white p-4" data-proposal={p.materialName}>
+                    <p className="font-semibold">{p.materialName}</p>
+                    <ul className="mt-2 space-y-1 text-sm text-muted">
+                      {p.lines.map((l) => (
+                        <li key={l.lineId}>
+                          #{l.orderNumber} {l.customerName}: {l.quantity} × {l.productName} · due {formatDate(l.dueDate)}
+                        </li>
+                      ))}
+                    </ul>
+                  </li>
+                ))}
+              </ul>
+              <Form method="post">
+                <input type="hidden" name="intent" value="create" />
+                <input type="hidden" name="dueBy" value={dueBy} />
+                <SubmitButton pendingText="Creating…">Create {proposals.length === 1 ? "this batch" : `these ${proposals.length} batches`}</SubmitButton>
+              </Form>
+            </>
+          )}
+        </section>
+      )}
+
+      <section className="space-y-3">
+        <h2 className="text-xl font-semibold">All batches</h2>
+        {batches.length === 0 ? (
+          <p className="text-muted">No batches yet.</p>
+        ) : (
+          <ul className="divide-y divide-line rounded-lg border border-line bg-card">
+            {batches.map((b) => (
+              <li key={b.id} className="flex flex-wrap items-center justify-between gap-3 px-4 py-3">
+                <Link to={`/batches/${b.id}`} className="font-semibold text-edge hover:underline">
+                  {batchCode(b.number)}
+                </Link>
+                <span className="min-w-40 grow">{b.materialName}</span>
+                <span className="text-sm text-muted">
+                  {b.lines} line{b.lines === 1 ? "" : "s"} · {b.plans} plan{b.plans === 1 ? "" : "s"} · due by {formatDate(b.dueBy)}
+                </span>
+                <BatchBadge status={b.status} />
+              </li>
+            ))}
+          </ul>
+        )}
+      </section>
+
+      {held.length > 0 && (
+        <section className="space-y-3">
+          <h2 className="text-xl font-semibold">Held back</h2>
+          <ul className="divide-y divide-line rounded-lg border border-line bg-card">
+            {held.map((h) => (
+              <li key={`${h.lineId}-${h.materialId}`} className="flex flex-wrap items-center justify-between gap-3 px-4 py-3">
+                <span>
+                  #{h.orderNumber}: {h.quantity} × {h.productName} <span className="text-muted">({h.materialName})</span>
+                </span>
+                <Form method="post">
+                  <input type="hidden" name="intent" value="unhold" />
+                  <input type="hidden" name="lineId" value={h.lineId} />
+                  <input type="hidden" name="materialId" value={h.materialId} />
+                  <input type="hidden" name="dueBy" value={params.get("dueBy") ?? ""} />
+                  <button type="submit" className="min-h-11 rounded-md border border-line bg-white px-4 text-sm font-medium hover:border-edge">
+                    Release the hold
+                  </button>
+                </Form>
+              </li>
+            ))}
+          </ul>
+        </section>
+      )}
+    </div>
+  );
+}

@@ -1,0 +1,286 @@
+import { and, eq } from "drizzle-orm";
+import request from "supertest";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import * as t from "../../db/schema";
+import { appServer, visible } from "../support/app";
+import { createShop, signIn, type TestShop } from "../support/factories";
+import { waitForMail } from "../support/outbox";
+import { getDb } from "~/db.server";
+import { startPlanRunner, stopPlanRunner } from "~/jobs/plan-runner.server";
+import { batchSources, createBatches, getBatch, holdLine, moveLine, proposeBatches } from "~/models/batches.server";
+import { mergeBatchParts } from "~/lib/batch-parts";
+import { PlanStateError, releasePlan, requestPlan } from "~/models/plans.server";
+import { createOrder } from "~/models/orders.server";
+
+const server = await appServer();
+const db = getDb();
+const mm = (n: number) => n * 1000;
+const settings = (over: Partial<t.PlanSettings> = {}): t.PlanSettings => ({ kerfMm: 3.2, trimMm: 10, stages: 2, objective: "sheets", timeLimitMs: 300, offcutIds: [], seed: 7, ...over });
+
+/** A shop with birch in two thicknesses, the demo's products, and confirmed orders due on given dates. */
+async function scenario() {
+  const shop = await createShop("Batches");
+  const [birch6, birch3] = await db
+    .insert(t.materials)
+    .values([
+      { shopId: shop.id, name: "Birch plywood 6 mm", kind: "plywood", thicknessUm: mm(6) },
+      { shopId: shop.id, name: "Birch plywood 3 mm", kind: "plywood", thicknessUm: mm(3) },
+    ])
+    .returning();
+  const [sheet6] = await db.insert(t.stockPanels).values([{ shopId: shop.id, materialId: birch6.id, lengthUm: mm(2440), widthUm: mm(1220), costMinor: 5290, onHand: 3 }]).returning();
+  await db.insert(t.stockPanels).values({ shopId: shop.id, materialId: birch3.id, lengthUm: mm(1220), widthUm: mm(1220), costMinor: 1890, onHand: 2 });
+  const [tableNumber, sign, placeCard] = await db
+    .insert(t.products)
+    .values([
+      { shopId: shop.id, name: "Table number", priceMinor: 650 },
+      { shopId: shop.id, name: "Welcome sign", priceMinor: 8500 },
+      { shopId: shop.id, name: "Place card", priceMinor: 180 },
+    ])
+    .returning();
+  await db.insert(t.productParts).values([
+    { productId: tableNumber.id, materialId: birch6.id, name: "Number card", lengthUm: mm(210), widthUm: mm(150), grainLocked: true },
+    { productId: sign.id, materialId: birch6.id, name: "Sign face", lengthUm: mm(600), widthUm: mm(400), grainLocked: true },
+    { productId: placeCard.id, materialId: birch3.id, name: "Card", lengthUm: mm(90), widthUm: mm(55), process: "laser" },
+  ]);
+  const [ardent, penhaligon] = await db
+    .insert(t.customers)
+    .values([
+      { shopId: shop.id, name: "Ardent–Vasquez wedding" },
+      { shopId: shop.id, name: "Penhaligon party" },
+    ])
+    .returning();
+  const order = async (customerId: string, dueDate: string, status: "confirmed" | "draft", lines: { productId: string; quantity: number; personalisation?: string[] }[]) => {
+    const o = await createOrder(shop.id, { customerId, eventDate: "2027-01-30", dueDate, notes: "" }, lines.map((l) => ({ personalisation: [], notes: "", files: [], ...l })));
+    await db.update(t.orders).set({ status }).where(eq(t.orders.id, o.id));
+    return o;
+  };
+  const wedding = await order(ardent.id, "2027-01-10", "confirmed", [
+    { productId: tableNumber.id, quantity: 3, personalisation: ["Table 1", "Table 2", "Table 3"] },
+    { productId: sign.id, quantity: 1 },
+    { productId: placeCard.id, quantity: 120, personalisation: Array.from({ length: 120 }, (_, i) => `Guest ${i + 1}`) },
+  ]);
+  const party = await order(penhaligon.id, "2027-01-12", "confirmed", [{ productId: tableNumber.id, quantity: 2, personalisation: ["Table A", "Table B"] }]);
+  const later = await order(penhaligon.id, "2027-03-01", "confirmed", [{ productId: sign.id, quantity: 1 }]);
+  const draft = await order(ardent.id, "2027-01-05", "draft", [{ productId: sign.id, quantity: 1 }]);
+  return { shop, birch6, birch3, sheet6, wedding, party, later, draft };
+}
+
+beforeAll(async () => {
+  await startPlanRunner();
+});
+afterAll(async () => {
+  await stopPlanRunner();
+});
+
+async function waitForPlan(planId: string, statuses: string[], timeoutMs = 20_000) {
+  const deadline = Date.now() + timeoutMs;
+  for (;;) {
+    const [row] = await db.select().from(t.plans).where(eq(t.plans.id, planId));
+    if (statuses.includes(row.status)) return row;
+    if (Date.now() > deadline) throw new Error(`plan still ${row.status} after ${timeoutMs} ms`);
+    await new Promise((r) => setTimeout(r, 100));
+  }
+}
+
+describe("proposing and adjusting batches", () => {
+  let s: Awaited<ReturnType<typeof scenario>>;
+  beforeAll(async () => {
+    s = await scenario();
+  });
+
+  it("proposes one batch per material of the confirmed lines due by the date, and no drafts or later orders", async () => {
+    const proposals = await proposeBatches(s.shop.id, "2027-01-15");
+    expect(proposals.map((p) => p.materialName).sort()).toEqual(["Birch plywood 3 mm", "Birch plywood 6 mm"]);
+    const six = proposals.find((p) => p.materialId === s.birch6.id)!;
+    expect(six.lines.map((l) => `${l.orderNumber}:${l.productName}`).sort()).toEqual([`${s.party.number}:Table number`, `${s.wedding.number}:Table number`, `${s.wedding.number}:Welcome sign`].sort());
+    expect(six.lines.some((l) => l.orderNumber === s.draft.number || l.orderNumber === s.later.number)).toBe(false);
+  });
+
+  it("creates the batches; then nothing is left to propose, and the parts merge keeping every origin", async () => {
+    const ids = await createBatches(s.shop.id, "2027-01-15");
+    expect(ids).toHaveLength(2);
+    expect(await proposeBatches(s.shop.id, "2027-01-15")).toEqual([]);
+    const six = (await Promise.all(ids.map((id) => getBatch(s.shop.id, id)))).find((b) => b!.materialId === s.birch6.id)!;
+    const parts = mergeBatchParts(await batchSources(six.id));
+    const numbers = parts.find((p) => p.name === "Number card")!;
+    expect(numbers.quantity).toBe(5); // 3 from the wedding + 2 from the party, one row
+    expect(numbers.origins.map((o) => `${o.orderNumber}:${o.text}`)).toEqual([
+      `${s.wedding.number}:Table 1`, `${s.wedding.number}:Table 2`, `${s.wedding.number}:Table 3`, `${s.party.number}:Table A`, `${s.party.number}:Table B`,
+    ]);
+    expect(parts.find((p) => p.name === "Sign face")!.quantity).toBe(1);
+  });
+
+  it("moves a line to another batch of the same material, and holds one back out of proposals until released", async () => {
+    const [six] = await db.select().from(t.batches).where(and(eq(t.batches.shopId, s.shop.id), eq(t.batches.materialId, s.birch6.id)));
+    const [second] = await createBatchFor(s.shop.id, s.birch6.id);
+    const [line] = await db.select().from(t.orderLines).where(eq(t.orderLines.orderId, s.party.id));
+    expect(await moveLine(s.shop.id, six.id, line.id, second)).toBe(true);
+    expect((await getBatch(s.shop.id, second))!.lines.map((l) => l.lineId)).toEqual([line.id]);
+
+    expect(await holdLine(s.shop.id, second, line.id)).toBe(true);
+    expect((await getBatch(s.shop.id, second))!.lines).toEqual([]);
+    expect((await proposeBatches(s.shop.id, "2027-01-15")).flatMap((p) => p.lines)).toEqual([]);
+    const owner = await signIn(server, s.shop.users.owner);
+    const page = await request(server).get("/batches?dueBy=2027-01-15").set("Cookie", owner);
+    expect(visible(page.text)).toContain(`#${s.party.number}: 2 × Table number`);
+    const released = await request(server).post("/batches").set("Cookie", owner).type("form").send({ intent: "unhold", lineId: line.id, materialId: s.birch6.id });
+    expect(released.status).toBe(302);
+    expect((await proposeBatches(s.shop.id, "2027-01-15")).flatMap((p) => p.lines.map((l) => l.lineId))).toEqual([line.id]);
+  });
+
+  it("a sawyer sees batches but cannot change them; another shop's batch answers 404", async () => {
+    const [six] = await db.select().from(t.batches).where(and(eq(t.batches.shopId, s.shop.id), eq(t.batches.materialId, s.birch6.id)));
+    const sawyer = await signIn(server, s.shop.users.sawyer);
+    expect((await request(server).get(`/batches/${six.id}`).set("Cookie", sawyer)).status).toBe(200);
+    expect((await request(server).post(`/batches/${six.id}`).set("Cookie", sawyer).type("form").send({ intent: "run-plan" })).status).toBe(403);
+    const other = await createShop("Stranger");
+    const stranger = await signIn(server, other.users.owner);
+    expect((await request(server).get(`/batches/${six.id}`).set("Cookie", stranger)).status).toBe(404);
+    expect((await request(server).post(`/batches/${six.id}`).set("Cookie", stranger).type("form").send({ intent: "run-plan", kerfMm: "3.2", trimMm: "10", seconds: "1", stages: "2", objective: "sheets" })).status).toBe(404);
+    expect((await request(server).get(`/api/batches/${six.id}/plans`).set("Cookie", stranger)).status).toBe(404);
+  });
+});
+
+async function createBatchFor(shopId: string, materialId: string) {
+  const [{ n }] = await db.select({ n: t.batches.number }).from(t.batches).where(eq(t.batches.shopId, shopId)).orderBy(t.batches.number);
+  const rows = await db.insert(t.batches).values({ shopId, number: n + 100 + Math.floor(Math.random() * 1000), materialId, dueBy: "2027-01-15" }).returning({ id: t.batches.id });
+  return rows.map((r) => r.id);
+}
+
+describe("plans on the real queue", () => {
+  let s: Awaited<ReturnType<typeof scenario>>;
+  let six: string;
+  let three: string;
+  beforeAll(async () => {
+    s = await scenario();
+    const ids = await createBatches(s.shop.id, "2027-01-15");
+    six = (await db.select().from(t.batches).where(and(eq(t.batches.shopId, s.shop.id), eq(t.batches.materialId, s.birch6.id))))[0].id;
+    three = ids.find((id) => id !== six)!;
+  });
+
+  it("queued → running → done: the saved plan passed the validator, the batch is planned, and the API shows it", async () => {
+    const owner = await signIn(server, s.shop.users.owner);
+    const res = await request(server).post(`/batches/${six}`).set("Cookie", owner).type("form").send({ intent: "run-plan", kerfMm: "3.2", trimMm: "10", seconds: "0.5", stages: "2", objective: "sheets" });
+    expect(res.status).toBe(302);
+    const [queued] = await db.select().from(t.plans).where(eq(t.plans.batchId, six));
+    expect(["queued", "running", "done"]).toContain(queued.status);
+    expect(queued.jobId).toBeTruthy();
+    const done = await waitForPlan(queued.id, ["done", "failed"]);
+    expect(done.error).toBeNull();
+    expect(done.status).toBe("done");
+    expect(done.sheets).toBe(1); // 5 number cards and a sign fit one 2440 × 1220 sheet
+    expect(done.costMinor).toBe(5290);
+    expect(done.startedAt!.getTime()).toBeLessThanOrEqual(done.finishedAt!.getTime());
+    const [batch] = await db.select().from(t.batches).where(eq(t.batches.id, six));
+    expect(batch.status).toBe("planned");
+    const api = await request(server).get(`/api/batches/${six}/plans`).set("Cookie", owner);
+    expect(api.body.plans[0]).toMatchObject({ id: queued.id, status: "done", sheets: 1, setups: expect.any(Number) });
+    const view = await request(server).get(`/batches/${six}/plans/${queued.id}`).set("Cookie", owner);
+    expect(view.status).toBe(200);
+    expect(visible(view.text)).toContain("Panel 1 of 1: full sheet 2440 × 1220 mm");
+  });
+
+  it("names bad plan settings", async () => {
+    const owner = await signIn(server, s.shop.users.planner);
+    const res = await request(server).post(`/batches/${six}`).set("Cookie", owner).type("form").send({ intent: "run-plan", kerfMm: "-1", trimMm: "ten", seconds: "600", stages: "4", objective: "cheapest" });
+    expect(res.status).toBe(400);
+    for (const text of ["kerf must be between 0 and 10 mm", "edge trim must be a number", "search time must be between 0.2 and 30 seconds", "Choose how the saw works the sheet", "Choose what the plan aims for"]) expect(res.text).toContain(text);
+  });
+
+  it("laser items become blanks cut like any part, and each blank downloads as a true-size SVG", async () => {
+    const planId = await requestPlan(s.shop.id, three, settings());
+    const done = await waitForPlan(planId, ["done", "failed"]);
+    expect(done.status).toBe("done");
+    const result = done.result as { plan: { sheets: { placements: { partId: string }[] }[] }; blanks: number };
+    expect(result.blanks).toBe(3); // 120 cards 90 × 55 at 40 per 600 × 400 bed (see test/lib/laser-blanks.test.ts)
+    expect(result.plan.sheets.flatMap((sh) => sh.placements).filter((p) => p.partId === "laser-blank")).toHaveLength(3);
+    const owner = await signIn(server, s.shop.users.owner);
+    const svg = await request(server).get(`/batches/${three}/blanks/2`).set("Cookie", owner);
+    expect(svg.status).toBe(200);
+    expect(svg.headers["content-type"]).toContain("image/svg+xml");
+    expect(Buffer.from(svg.body).toString("utf8")).toContain('width="600mm"');
+    expect((await request(server).get(`/batches/${three}/blanks/4`).set("Cookie", owner)).status).toBe(404);
+  });
+
+  it("a cancelled plan stops its engine and stays cancelled", async () => {
+    const planId = await requestPlan(s.shop.id, six, settings({ timeLimitMs: 20_000 }));
+    await waitForPlan(planId, ["running"]);
+    const owner = await signIn(server, s.shop.users.owner);
+    const started = Date.now();
+    const res = await request(server).post(`/batches/${six}`).set("Cookie", owner).type("form").send({ intent: "cancel-plan", planId });
+    expect(res.status).toBe(302);
+    const row = await waitForPlan(planId, ["cancelled"]);
+    expect(row.error).toBe("Cancelled by the planner.");
+    await new Promise((r) => setTimeout(r, 800));
+    const [after] = await db.select().from(t.plans).where(eq(t.plans.id, planId));
+    expect(after.status).toBe("cancelled");
+    expect(after.result).toBeNull();
+    expect(Date.now() - started).toBeLessThan(10_000);
+  });
+
+  it("a plan that cannot run is marked failed with the reason", async () => {
+    const [acrylic] = await db.insert(t.materials).values({ shopId: s.shop.id, name: "Acrylic 3 mm", kind: "acrylic", thicknessUm: mm(3) }).returning();
+    const [product] = await db.insert(t.products).values({ shopId: s.shop.id, name: "Acrylic tag", priceMinor: 300 }).returning();
+    await db.insert(t.productParts).values({ productId: product.id, materialId: acrylic.id, name: "Tag", lengthUm: mm(80), widthUm: mm(40) });
+    const [customer] = await db.select().from(t.customers).where(eq(t.customers.shopId, s.shop.id));
+    const o = await createOrder(s.shop.id, { customerId: customer.id, eventDate: "2027-01-20", dueDate: "2027-01-14", notes: "" }, [{ productId: product.id, quantity: 4, personalisation: [], notes: "", files: [] }]);
+    await db.update(t.orders).set({ status: "confirmed" }).where(eq(t.orders.id, o.id));
+    const [batchId] = await createBatches(s.shop.id, "2027-01-15", [acrylic.id]);
+    const planId = await requestPlan(s.shop.id, batchId, settings());
+    const failed = await waitForPlan(planId, ["failed", "done"]);
+    expect(failed.status).toBe("failed");
+    expect(failed.error).toContain("no stock panels");
+  });
+});
+
+describe("release", () => {
+  it("reserves sheets and offcuts, records the offcuts it makes, and mails the sawyers; of two releases racing for one offcut only one wins", async () => {
+    const s = await scenario();
+    const [offcut] = await db.insert(t.offcuts).values({ shopId: s.shop.id, materialId: s.birch6.id, lengthUm: mm(1300), widthUm: mm(700), location: "Rack A" }).returning();
+    const [first] = await createBatches(s.shop.id, "2027-01-10", [s.birch6.id]); // the wedding's 6 mm lines
+    const [second] = await createBatches(s.shop.id, "2027-01-12", [s.birch6.id]); // the party's table numbers
+    const planA = await requestPlan(s.shop.id, first, settings({ offcutIds: [offcut.id] }));
+    const planB = await requestPlan(s.shop.id, second, settings({ offcutIds: [offcut.id] }));
+    const [a, b] = await Promise.all([waitForPlan(planA, ["done", "failed"]), waitForPlan(planB, ["done", "failed"])]);
+    const usesOffcut = (row: typeof a) => (row.result as { plan: { sheets: { stockId: string }[] } }).plan.sheets.some((sh) => sh.stockId === `offcut:${offcut.id}`);
+    expect(usesOffcut(a)).toBe(true); // racked offcuts come before full sheets
+    expect(usesOffcut(b)).toBe(true);
+
+    const results = await Promise.allSettled([releasePlan(s.shop.id, first, planA), releasePlan(s.shop.id, second, planB)]);
+    expect(results.filter((r) => r.status === "fulfilled")).toHaveLength(1);
+    const loser = results.find((r) => r.status === "rejected") as PromiseRejectedResult;
+    expect(loser.reason).toBeInstanceOf(PlanStateError);
+    expect(loser.reason.message).toContain("taken by another batch");
+    const [rackRow] = await db.select().from(t.offcuts).where(eq(t.offcuts.id, offcut.id));
+    expect(rackRow.status).toBe("reserved");
+    const statuses = (await db.select().from(t.batches).where(eq(t.batches.shopId, s.shop.id))).map((x) => x.status).sort();
+    expect(statuses).toEqual(["planned", "released"]);
+
+    // Through the page: the loser sees the message, nothing changes.
+    const losingBatch = results[0].status === "rejected" ? first : second;
+    const losingPlan = losingBatch === first ? planA : planB;
+    const owner = await signIn(server, s.shop.users.planner);
+    const page = await request(server).post(`/batches/${losingBatch}`).set("Cookie", owner).type("form").send({ intent: "release", planId: losingPlan });
+    expect(page.status).toBe(409);
+    expect(page.text).toContain("Nothing was released");
+  });
+
+  it("releasing through the page takes sheets off the count, records expected offcuts and e-mails each sawyer", async () => {
+    const s = await scenario();
+    const [batchId] = await createBatches(s.shop.id, "2027-01-10", [s.birch6.id]);
+    const planId = await requestPlan(s.shop.id, batchId, settings());
+    await waitForPlan(planId, ["done"]);
+    const planner = await signIn(server, s.shop.users.planner);
+    const res = await request(server).post(`/batches/${batchId}`).set("Cookie", planner).type("form").send({ intent: "release", planId });
+    expect(res.status).toBe(302);
+    const [panel] = await db.select().from(t.stockPanels).where(eq(t.stockPanels.id, s.sheet6.id));
+    expect(panel.onHand).toBe(2); // 3 on hand, the plan draws one
+    const expected = await db.select().from(t.offcuts).where(and(eq(t.offcuts.sourceBatchId, batchId), eq(t.offcuts.status, "expected")));
+    expect(expected.length).toBeGreaterThan(0); // a mostly empty 2440 × 1220 leaves rackable offcuts
+    const mail = await waitForMail(s.shop.users.sawyer.email);
+    expect(mail.subject).toMatch(/^Batch B-\d{4} \(Birch plywood 6 mm\) is ready for the saw$/);
+    const again = await request(server).post(`/batches/${batchId}`).set("Cookie", planner).type("form").send({ intent: "release", planId });
+    expect(again.status).toBe(409);
+    expect(again.text).toContain("already released");
+  });
+});
