@@ -270,8 +270,6 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
       cands.push(constructive(input, [v], [o], Infinity));
     }
   }
-  const dbg = (globalThis as { __dbg?: Record<string, unknown> }).__dbg;
-  if (dbg) dbg.tConstruct = now() - t0;
   let best = cands[0];
   for (const c of cands) if (lexLess(basicKey(c, prep.slots), basicKey(best, prep.slots))) best = c;
   options.onProgress?.({ bestSheets: best.bins.length });
@@ -285,7 +283,6 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
   cands.push(improved);
   const finals = cands.map((c) => (prep.slots.length > 1 ? downsize(input, c, variants) : c));
 
-  if (dbg) dbg.tImprove = now() - t0;
   // lay out only the candidates that can win: the best few on sheets, more when set-ups decide
   const ranked = finals
     .map((sol) => ({ sol, k: basicKey(sol, prep.slots) }))
@@ -317,7 +314,6 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
     const kb = key(b);
     return lexLess(ka, kb) ? -1 : lexLess(kb, ka) ? 1 : 0;
   });
-  if (dbg) dbg.tBuilt = now() - t0;
   for (const b of pool) {
     b.plan.metrics.elapsedMs = Math.round((now() - t0) * 10) / 10;
     if (validatePlan(job, b.plan).ok) return b.plan;

@@ -15,18 +15,28 @@ interface GBin {
   free: Free[];
 }
 
-const ENV = (globalThis as { process?: { env: Record<string, string | undefined> } }).process?.env ?? {};
-const FIRST_P = Number(ENV.SW_FIRST ?? 0.3);
-const DROP_MAX = Number(ENV.SW_DROP ?? 0.6);
-const KMAX = Number(ENV.SW_K ?? 3);
-const HIST = Number(ENV.SW_HIST ?? 50);
-const STALL = Number(ENV.SW_STALL ?? 3000);
-const SHORT_P = Number(ENV.SW_SHORT ?? 0);
-const LOOK_BINS = Number(ENV.SW_LOOKBINS ?? 4);
-const REFILL_P = Number(ENV.SW_REFILL ?? 0.3);
-const REFILL_TRIES = Number(ENV.SW_TRIES ?? 3);
+// Tuned on the literature classes (see test/bench/RESULTS.md); moves are cheap, so many per second.
+/** chance to rebuild a ruined panel with the biggest pool part placed first */
+const FIRST_P = 0.3;
+/** a ruined panel loses 10 % to 70 % of its parts */
+const DROP_MAX = 0.6;
+/** panels ruined per move: 1 to 3 */
+const KMAX = 3;
+/** late-acceptance history length */
+const HIST = 50;
+/** moves without a better pool before restarting from the best plan */
+const STALL = 3000;
+/** jobs of at most this many panels may use the slow look-ahead filler in rebuilds */
+const LOOK_BINS = 4;
+/** noise on the recreate order (relative) */
+const RNOISE = 0.3;
+/** share of moves that rebuild the chosen panels from scratch, and tries per rebuild */
+const REFILL_P = 0.3;
+const REFILL_TRIES = 3;
+/** pool cost per part: (area)^COST_EXP, so big parts weigh more than their area */
+const COST_EXP = 1.2;
 
-export function goalDrivenGuillotine(input: SearchInput, start: Solution, variants: GuillotineParams[], allVariants: FillParams[], costExp = Number(ENV.SW_EXP ?? 1.2)): Solution {
+export function goalDrivenGuillotine(input: SearchInput, start: Solution, variants: GuillotineParams[], allVariants: FillParams[]): Solution {
   const { stocks, weight, dims, rng, now, deadline } = input;
   const nT = weight.length;
   const itemVariants = variants.filter((v) => v.driver === "item");
@@ -35,7 +45,7 @@ export function goalDrivenGuillotine(input: SearchInput, start: Solution, varian
   const fewBins = start.bins.length <= LOOK_BINS;
   const refillVariants = allVariants.filter((v) => fewBins || !(v.kind === "guillotine" && v.driver === "look"));
   const cost = new Float64Array(nT);
-  for (let t = 0; t < nT; t++) cost[t] = Math.pow(dims[t].l * dims[t].w, costExp);
+  for (let t = 0; t < nT; t++) cost[t] = Math.pow(dims[t].l * dims[t].w, COST_EXP);
 
   const replay = (s: number, seq: number[], pool: Int32Array, v: GuillotineParams): GBin => {
     const c = pool.slice();
@@ -174,9 +184,8 @@ export function goalDrivenGuillotine(input: SearchInput, start: Solution, varian
     }
     // recreate: pool parts by decreasing cost (noisy), each into the snuggest free rectangle of any panel
     const seq: { t: number; key: number }[] = [];
-    for (let t = 0; t < nT; t++) for (let c = 0; c < work[t]; c++) seq.push({ t, key: cost[t] * (1 + 0.3 * (rng() - 0.5)) });
+    for (let t = 0; t < nT; t++) for (let c = 0; c < work[t]; c++) seq.push({ t, key: cost[t] * (1 + RNOISE * (rng() - 0.5)) });
     seq.sort((a, b) => b.key - a.key);
-    const useShort = rng() < SHORT_P;
     for (const { t } of seq) {
       if (rng() < 0.03) continue; // blink: leave it for a later round
       let bi = -1;
@@ -192,7 +201,7 @@ export function goalDrivenGuillotine(input: SearchInput, start: Solution, varian
           if (r.w * r.h < itemArea) continue;
           for (const o of os) {
             if (o.w <= r.w && o.h <= r.h) {
-              const sc = useShort ? Math.min(r.w - o.w, r.h - o.h) * 1e7 + Math.max(r.w - o.w, r.h - o.h) : r.w * r.h - o.w * o.h;
+              const sc = r.w * r.h - o.w * o.h;
               if (sc < bs) {
                 bs = sc;
                 bi = i;
@@ -256,7 +265,5 @@ export function goalDrivenGuillotine(input: SearchInput, start: Solution, varian
       lastGain = iter;
     }
   }
-  const g = (globalThis as { __dbg?: Record<string, unknown> }).__dbg;
-  if (g) Object.assign(g, { iter, start: start.bins.length, poolN: pool.reduce((a, b) => a + b, 0), best: best.bins.length });
   return best;
 }

@@ -319,8 +319,6 @@ export function ruinAndRecreate(input: SearchInput, start: Solution, variants: F
       hist.fill(poolW);
     }
   }
-  const g = (globalThis as { __dbg?: Record<string, unknown> }).__dbg;
-  if (g) Object.assign(g, { iter, start: start.bins.length, poolW, poolN: pool.reduce((a, b) => a + b, 0), best: best.bins.length });
   return best;
 }
 
