@@ -252,6 +252,10 @@ function load(file: string): Instance[] {
 
 function main() {
   const started = new Date();
+  const loadStart = os
+    .loadavg()
+    .map((x) => x.toFixed(2))
+    .join(" / ");
   let md = `# Packing engine benchmark\n\nRun ${started.toISOString()} on ${os.cpus().length} × ${os.cpus()[0]?.model ?? "cpu"}, Node ${process.version}` +
     `${partial ? ` (partial run: ${args.join(" ")})` : ""}. Budget ${timeMs} ms per instance, one instance at a time, seed 1, kerf 0, trim 0, stages 0, rotation allowed.\n\n` +
     `Reference per instance: \`best_known["${VARIANT}"].bins\` where published, else that variant's \`lower_bound\` (from ../shared/benchmarks, read at run time).\n` +
@@ -260,8 +264,10 @@ function main() {
   if (sets.includes("shop")) {
     // shop batches need no benchmark files
   }
-  if (!existsSync(benchDir)) {
+  const present = existsSync(benchDir);
+  if (!present) {
     console.log(`bin/bench: skipped the literature sets: ${benchDir} not found (set STOPWISE_BENCHMARKS to its folder)`);
+    md += `Literature sets skipped: ${benchDir} not found.\n\n`;
   } else {
     if (sets.includes("classes")) {
       let insts = load("class_bw_mv.json");
@@ -286,9 +292,12 @@ function main() {
   if (sets.includes("shop")) {
     md += `## Shop batches (invented data, made up for this benchmark)\n\nKerf 3.2 mm, trim 10 mm, minOffcut 100 mm / 0.06 m², ripMax 650, sledWidthMax 700, stop 20–1250 mm. Budget 1 s, 5 s for the 2,000-part batch.\n\n` + shopTable() + "\n";
   }
-  md += `Wall time of the whole run: ${((Date.now() - started.getTime()) / 1000).toFixed(0)} s.\n`;
+  md += `Wall time of the whole run: ${((Date.now() - started.getTime()) / 1000).toFixed(0)} s. Load average (1/5/15 min) at the start ${loadStart}, at the end ${os
+    .loadavg()
+    .map((x) => x.toFixed(2))
+    .join(" / ")} (other work on the machine stretches the wall-clock budget).\n`;
   process.stdout.write(md);
-  if (write) {
+  if (write && (present || flag("--write"))) {
     mkdirSync(path.join(repoRoot, "test/bench"), { recursive: true });
     writeFileSync(path.join(repoRoot, "test/bench/RESULTS.md"), md);
     console.log("wrote test/bench/RESULTS.md");
