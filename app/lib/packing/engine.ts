@@ -237,7 +237,14 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
     job.stages === 0 && totalParts <= 300 && lb <= 6
       ? [0, 3].flatMap((rc) => [2, 4].map((sp): FillParams => ({ kind: "guillotine", rectChoice: rc, split: sp, driver: "look" })))
       : [];
-  const buildVariants = job.stages === 0 ? [...variants, ...stagedVariants(2), ...stagedVariants(3), ...look] : variants;
+  // rectangle-packer's GuillotineBinPack (global best fit) where the job is small enough for it
+  const rp: FillParams[] =
+    job.stages === 0 && totalParts <= 400
+      ? [0, 1].flatMap((orient) =>
+          [0, 1].flatMap((rc) => [2, 4].map((sp): FillParams => ({ kind: "guillotine", rectChoice: rc, split: sp, driver: "rp", orient: orient as 0 | 1 }))),
+        )
+      : [];
+  const buildVariants = job.stages === 0 ? [...variants, ...stagedVariants(2), ...stagedVariants(3), ...rp, ...look] : variants;
   const dims = prep.lowerBoundItems.map((_, t) => {
     const p = job.parts[prep.typePart[t]];
     return { l: mmToUm(p.length) + prep.kerf, w: mmToUm(p.width) + prep.kerf };

@@ -1,3 +1,5 @@
+import { GuillotineBinPack } from "rectangle-packer";
+
 // Fillers: lay items from a pool onto one panel. All sizes are "inflated" integers
 // (real size + kerf, panel usable size + kerf), which turns every kerf-aware guillotine
 // layout into a zero-kerf one: n parts of width w fit in W iff n·(w+k) <= W+k.
@@ -39,7 +41,9 @@ export interface GuillotineParams {
    * item-driven (pack the order), rectangle-driven (best item for each free rectangle), or look-ahead
    * (rectangle-driven, each choice judged by completing the panel greedily: slow, for small jobs)
    */
-  driver: "item" | "rect" | "look";
+  driver: "item" | "rect" | "look" | "rp";
+  /** "rp" only: orientation decided up front, 0 long side along x, 1 along y (where allowed) */
+  orient?: 0 | 1;
 }
 
 export interface StagedParams {
@@ -75,6 +79,7 @@ export function fillBin(
 ): number {
   if (params.kind === "guillotine") {
     if (params.driver === "look") return lookaheadFill(ctx, counts, order, params, weight, out, freeOut);
+    if (params.driver === "rp") return rectanglePackerFill(ctx, counts, order, params, weight, out, freeOut);
     return params.driver === "item"
       ? guillotineItemFill(ctx, counts, order, params, weight, out, freeOut)
       : guillotineRectFill(ctx, counts, order, params, weight, out, freeOut);
@@ -453,5 +458,68 @@ function lookaheadFill(
     packed += weight[b.t];
   }
   for (const d of dead) free.push(d);
+  return packed;
+}
+
+// --- rectangle-packer's GuillotineBinPack as one more filler (global best fit over all parts) ---
+// Without flipping (it would not say which parts it turned) and without merging free rectangles
+// (which can lose the guillotine property); orientations are chosen before packing.
+
+interface RpRect {
+  x: number;
+  y: number;
+  width: number;
+  height: number;
+  t: number;
+  rot: boolean;
+}
+
+const RP_SPLIT = [
+  GuillotineBinPack.GuillotineSplitHeuristic.SplitShorterAxis,
+  GuillotineBinPack.GuillotineSplitHeuristic.SplitLongerAxis,
+  GuillotineBinPack.GuillotineSplitHeuristic.SplitShorterLeftoverAxis,
+  GuillotineBinPack.GuillotineSplitHeuristic.SplitLongerLeftoverAxis,
+  GuillotineBinPack.GuillotineSplitHeuristic.SplitMinimizeArea,
+  GuillotineBinPack.GuillotineSplitHeuristic.SplitMaximizeArea,
+];
+const RP_CHOICE = [
+  GuillotineBinPack.FreeRectChoiceHeuristic.RectBestAreaFit,
+  GuillotineBinPack.FreeRectChoiceHeuristic.RectBestShortSideFit,
+  GuillotineBinPack.FreeRectChoiceHeuristic.RectBestLongSideFit,
+  GuillotineBinPack.FreeRectChoiceHeuristic.RectBestAreaFit,
+];
+
+function rectanglePackerFill(
+  ctx: BinContext,
+  counts: Int32Array,
+  order: number[],
+  p: GuillotineParams,
+  weight: Float64Array,
+  out: Placed[],
+  freeOut?: Free[],
+): number {
+  const rects: RpRect[] = [];
+  const left = counts.slice();
+  for (const t of order) {
+    if (left[t] <= 0) continue;
+    const os = ctx.orients[t];
+    if (os.length === 0) continue;
+    let o = os[0];
+    for (const q of os) if (p.orient === 1 ? q.h > o.h : q.w > o.w) o = q;
+    rects.push({ x: 0, y: 0, width: o.w, height: o.h, t, rot: o.rot });
+    left[t]--;
+  }
+  const bp = new GuillotineBinPack<RpRect>(ctx.W, ctx.H, false);
+  bp.InsertSizes(rects, false, RP_CHOICE[p.rectChoice], RP_SPLIT[p.split]);
+  let packed = 0;
+  for (const r of bp.usedRectangles) {
+    out.push({ t: r.t, x: r.x, y: r.y, w: r.width, h: r.height, rot: r.rot });
+    counts[r.t]--;
+    packed += weight[r.t];
+  }
+  if (freeOut) {
+    freeOut.length = 0;
+    for (const f of bp.freeRectangles) freeOut.push({ x: f.x, y: f.y, w: f.width, h: f.height });
+  }
   return packed;
 }
