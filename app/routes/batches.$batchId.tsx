@@ -1,4 +1,4 @@
-import { useState } from "react";
+import { useEffect, useState } from "react";
 import * as v from "valibot";
 import { data, Form, Link, redirect } from "react-router";
 import useSWR from "swr";
@@ -122,10 +122,14 @@ export default function BatchPage({ loaderData, actionData }: Route.ComponentPro
   const errors: Record<string, string> = actionData?.errors ?? {};
   const editable = canWrite && (batch.status === "open" || batch.status === "planned");
   // Poll while a plan is queued or running; otherwise the list stays as loaded.
-  const { data: live } = useSWR(`/api/batches/${batch.id}/plans`, fetchPlans, {
+  const { data: live, mutate } = useSWR(`/api/batches/${batch.id}/plans`, fetchPlans, {
     fallbackData: { plans: loaderData.plans },
     refreshInterval: (latest) => (latest?.plans.some((p) => p.status === "queued" || p.status === "running") ? 700 : 0),
   });
+  // After an action the loader has the newest list (a plan just queued): it replaces swr's copy.
+  useEffect(() => {
+    void mutate({ plans: loaderData.plans }, { revalidate: false });
+  }, [loaderData.plans, mutate]);
   const plans = live?.plans ?? loaderData.plans;
   const done = plans.filter((p) => p.status === "done");
   const [compare, setCompare] = useState<[string, string]>(["", ""]);
