@@ -51,6 +51,8 @@ export const shops = pgTable("shops", {
   sledWidthMaxUm: integer("sled_width_max_um").notNull().default(610000),
   stopMinUm: integer("stop_min_um").notNull().default(20000),
   stopMaxUm: integer("stop_max_um").notNull().default(1200000),
+  // Largest sled squareness error accepted, micrometres per metre of crosscut (0.15 mm/m: a common shop target).
+  sledToleranceUmPerM: integer("sled_tolerance_um_per_m").notNull().default(150),
   createdAt: createdAt(),
 });
 
@@ -308,6 +310,7 @@ export const batches = pgTable(
     dueBy: date("due_by", { mode: "string" }).notNull(),
     chosenPlanId: uuid("chosen_plan_id"),
     releasedAt: timestamp("released_at", { withTimezone: true, mode: "date" }),
+    cutAt: timestamp("cut_at", { withTimezone: true, mode: "date" }),
     createdAt: createdAt(),
   },
   (t) => [uniqueIndex("batches_shop_number_key").on(t.shopId, t.number), index("batches_shop_status_idx").on(t.shopId, t.status)],
@@ -349,6 +352,9 @@ export const heldLines = pgTable(
 );
 
 export type PlanSettings = {
+  /** the saw and sled the plan assumes (the kerf comes from the saw's latest measurement unless typed) */
+  sawId?: string | null;
+  sledId?: string | null;
   kerfMm: number;
   trimMm: number;
   stages: 0 | 2 | 3;
@@ -387,4 +393,114 @@ export const plans = pgTable(
     finishedAt: timestamp("finished_at", { withTimezone: true, mode: "date" }),
   },
   (t) => [uniqueIndex("plans_batch_number_key").on(t.batchId, t.number)],
+);
+
+export const saws = pgTable("saws", {
+  id: uuid("id").primaryKey().defaultRandom(),
+  shopId: uuid("shop_id")
+    .notNull()
+    .references(() => shops.id, { onDelete: "cascade" }),
+  name: text("name").notNull(),
+  blade: text("blade").notNull().default(""),
+  createdAt: createdAt(),
+});
+
+// A test cut's measured kerf; plans use the latest one of their saw.
+export const kerfMeasurements = pgTable(
+  "kerf_measurements",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    shopId: uuid("shop_id")
+      .notNull()
+      .references(() => shops.id, { onDelete: "cascade" }),
+    sawId: uuid("saw_id")
+      .notNull()
+      .references(() => saws.id, { onDelete: "cascade" }),
+    kerfUm: integer("kerf_um").notNull(),
+    note: text("note").notNull().default(""),
+    measuredBy: text("measured_by").references(() => users.id, { onDelete: "set null" }),
+    measuredAt: timestamp("measured_at", { withTimezone: true, mode: "date" }).notNull().defaultNow(),
+  },
+  (t) => [index("kerf_measurements_saw_idx").on(t.sawId, t.measuredAt)],
+);
+
+export const sleds = pgTable("sleds", {
+  id: uuid("id").primaryKey().defaultRandom(),
+  shopId: uuid("shop_id")
+    .notNull()
+    .references(() => shops.id, { onDelete: "cascade" }),
+  sawId: uuid("saw_id").references(() => saws.id, { onDelete: "set null" }),
+  name: text("name").notNull(),
+  stopMinUm: integer("stop_min_um").notNull(),
+  stopMaxUm: integer("stop_max_um").notNull(),
+  widestUm: integer("widest_um").notNull(),
+  createdAt: createdAt(),
+});
+
+// A five-cut squareness check: the final strip's width at both ends, its length, and the distance
+// from the fence's pivot to its adjustment point.
+export const sledChecks = pgTable(
+  "sled_checks",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    shopId: uuid("shop_id")
+      .notNull()
+      .references(() => shops.id, { onDelete: "cascade" }),
+    sledId: uuid("sled_id")
+      .notNull()
+      .references(() => sleds.id, { onDelete: "cascade" }),
+    widthFirstEndUm: integer("width_first_end_um").notNull(),
+    widthSecondEndUm: integer("width_second_end_um").notNull(),
+    stripLengthUm: integer("strip_length_um").notNull(),
+    pivotDistanceUm: integer("pivot_distance_um").notNull(),
+    checkedBy: text("checked_by").references(() => users.id, { onDelete: "set null" }),
+    checkedAt: timestamp("checked_at", { withTimezone: true, mode: "date" }).notNull().defaultNow(),
+  },
+  (t) => [index("sled_checks_sled_idx").on(t.sledId, t.checkedAt)],
+);
+
+// The floor's record of a released batch: each set-up of the chosen plan ticked with the count cut.
+export const setupTicks = pgTable(
+  "setup_ticks",
+  {
+    batchId: uuid("batch_id")
+      .notNull()
+      .references(() => batches.id, { onDelete: "cascade" }),
+    setupIndex: integer("setup_index").notNull(),
+    countCut: integer("count_cut").notNull(),
+    tickedBy: text("ticked_by").references(() => users.id, { onDelete: "set null" }),
+    tickedAt: timestamp("ticked_at", { withTimezone: true, mode: "date" }).notNull().defaultNow(),
+  },
+  (t) => [uniqueIndex("setup_ticks_batch_setup_key").on(t.batchId, t.setupIndex)],
+);
+
+export type RecutOrigin = { orderId: string; orderNumber: number; customerName: string; lineId: string; productName: string; partName: string; itemIndex: number; text: string | null };
+
+// A spoiled part to cut again: it comes back as an open part of its material for the next batch.
+export const recutParts = pgTable(
+  "recut_parts",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    shopId: uuid("shop_id")
+      .notNull()
+      .references(() => shops.id, { onDelete: "cascade" }),
+    materialId: uuid("material_id")
+      .notNull()
+      .references(() => materials.id),
+    spoiledInBatchId: uuid("spoiled_in_batch_id")
+      .notNull()
+      .references(() => batches.id, { onDelete: "cascade" }),
+    // The batch that cuts it again, once one takes it.
+    batchId: uuid("batch_id").references(() => batches.id, { onDelete: "set null" }),
+    partName: text("part_name").notNull(),
+    lengthUm: integer("length_um").notNull(),
+    widthUm: integer("width_um").notNull(),
+    grainLocked: boolean("grain_locked").notNull(),
+    process: processEnum("process").notNull(),
+    reason: text("reason").notNull(),
+    origin: jsonb("origin").$type<RecutOrigin | null>(),
+    recordedBy: text("recorded_by").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (t) => [index("recut_parts_open_idx").on(t.shopId, t.materialId, t.batchId)],
 );
