@@ -234,7 +234,7 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
   // the slow look-ahead filler only where a few panels take many parts
   const totalParts = prep.demand.reduce((a, b) => a + b, 0);
   const look: FillParams[] =
-    job.stages === 0 && totalParts <= 300 && lb <= 6
+    job.stages === 0 && totalParts <= 120 && lb <= 6
       ? [0, 3].flatMap((rc) => [2, 4].map((sp): FillParams => ({ kind: "guillotine", rectChoice: rc, split: sp, driver: "look" })))
       : [];
   // rectangle-packer's GuillotineBinPack (global best fit) where the job is small enough for it

@@ -28,6 +28,7 @@ const HIST = 50;
 const STALL = 3000;
 /** jobs of at most this many panels may use the slow look-ahead filler in rebuilds */
 const LOOK_BINS = 4;
+const LOOK_PARTS = 60;
 /** noise on the recreate order (relative) */
 const RNOISE = 0.3;
 /** share of moves that rebuild the chosen panels from scratch, and tries per rebuild */
@@ -42,7 +43,9 @@ export function goalDrivenGuillotine(input: SearchInput, start: Solution, varian
   const itemVariants = variants.filter((v) => v.driver === "item");
   if (itemVariants.length === 0 || start.left.some((n) => n > 0)) return start;
   // look-ahead fills are slow: only where a few panels carry many parts
-  const fewBins = start.bins.length <= LOOK_BINS;
+  let nParts = 0;
+  for (const b of start.bins) nParts += b.placed.length;
+  const fewBins = start.bins.length <= LOOK_BINS && nParts <= LOOK_PARTS;
   const refillVariants = allVariants.filter((v) => fewBins || !(v.kind === "guillotine" && v.driver === "look"));
   const cost = new Float64Array(nT);
   for (let t = 0; t < nT; t++) cost[t] = Math.pow(dims[t].l * dims[t].w, COST_EXP);
@@ -133,7 +136,7 @@ export function goalDrivenGuillotine(input: SearchInput, start: Solution, varian
       for (const i of chosen) {
         const s = bins[i].s;
         let bestBin: GBin | null = null;
-        for (let a = 0; a < REFILL_TRIES; a++) {
+        for (let a = 0; a < REFILL_TRIES && (a === 0 || now() < deadline); a++) {
           const v = refillVariants[randInt(rng, refillVariants.length)];
           const order = makeOrder(work, dims, randInt(rng, ORDER_COUNT), rng, 0.2 + 0.6 * rng());
           const c = work.slice();
