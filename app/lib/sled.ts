@@ -95,3 +95,39 @@ export function checkStatus(check: SledCheckFacts, toleranceUmPerM: number, now:
   const ageDays = Math.floor((now.getTime() - check.checkedAt.getTime()) / DAY_MS);
   return { stale: ageDays > STALE_AFTER_DAYS, outOfTolerance: Math.abs(check.errorUmPerM) > toleranceUmPerM, ageDays };
 }
+
+// Thin-kerf blades cut about 2.4 mm, full-kerf ones about 3.2 mm (TRADE-FACTS §2, common practice).
+export const THIN_KERF_UM = 2400;
+export const FULL_KERF_UM = 3200;
+export const KERF_MIN_UM = 500;
+export const KERF_MAX_UM = 6000;
+
+/** How a measured kerf compares with the usual blades, for the note beside the measurement. */
+export function kerfComment(kerfUm: number): string {
+  const near = (a: number) => Math.abs(kerfUm - a) <= 300;
+  if (near(THIN_KERF_UM)) return "about what a thin-kerf blade cuts (≈ 2.4 mm)";
+  if (near(FULL_KERF_UM)) return "about what a full-kerf blade cuts (≈ 3.2 mm)";
+  if (kerfUm < THIN_KERF_UM) return "narrower than a thin-kerf blade (≈ 2.4 mm): measure the test cut again";
+  if (kerfUm > FULL_KERF_UM) return "wider than a full-kerf blade (≈ 3.2 mm): check for blade wobble or a dado stack, or measure again";
+  return "between a thin-kerf (≈ 2.4 mm) and a full-kerf (≈ 3.2 mm) blade";
+}
+
+/**
+ * Small sled figures need decimals, not 1/32 in: millimetres to 0.001, inches to 0.0001.
+ * Signed values keep their sign ("−0.468 mm").
+ */
+export function formatFine(um: number, unit: "mm" | "in"): string {
+  const sign = um < 0 ? "−" : "";
+  const abs = Math.abs(um);
+  return unit === "mm" ? `${sign}${(abs / 1000).toFixed(3)} mm` : `${sign}${(abs / 25_400).toFixed(4)} in`;
+}
+
+/** The error per metre of crosscut in the shop's unit: "0.850 mm per metre" or "0.0102 in per foot". */
+export function formatErrorRate(umPerM: number, unit: "mm" | "in"): string {
+  return unit === "mm" ? `${formatFine(umPerM, "mm")} per metre` : `${formatFine(umPerM * 0.3048, "in")} per foot`;
+}
+
+/** A kerf: "3.20 mm" or "0.126 in" (a blade is measured finer than 0.1 mm or 1/32 in). */
+export function formatKerf(um: number, unit: "mm" | "in"): string {
+  return unit === "mm" ? `${(um / 1000).toFixed(2)} mm` : `${(um / 25_400).toFixed(3)} in`;
+}
