@@ -135,6 +135,12 @@ export async function seedDemo(db: Database, today = new Date()): Promise<void> 
       },
       { orderId: cafe.id, productId: menuBoard.id, quantity: 4, unitPriceMinor: menuBoard.priceMinor, personalisation: ["Breakfast", "Lunch", "Coffee", "Cakes"] },
     ]);
+
+    // The saw station: one saw with a measured kerf, one sled squared a week ago (0.05 mm over 400 mm: 0.031 mm/m).
+    const [sawRow] = await tx.insert(t.saws).values({ shopId: shop.id, name: "Cabinet saw", blade: "250 mm, 3.2 mm full kerf" }).returning();
+    await tx.insert(t.kerfMeasurements).values({ shopId: shop.id, sawId: sawRow.id, kerfUm: mm(3.2), note: "test cut in 18 mm birch", measuredAt: new Date(today.getTime() - 7 * 86_400_000) });
+    const [sledRow] = await tx.insert(t.sleds).values({ shopId: shop.id, sawId: sawRow.id, name: "Big sled", stopMinUm: mm(20), stopMaxUm: mm(1200), widestUm: mm(610) }).returning();
+    await tx.insert(t.sledChecks).values({ shopId: shop.id, sledId: sledRow.id, widthFirstEndUm: 25_050, widthSecondEndUm: 25_000, stripLengthUm: mm(400), pivotDistanceUm: mm(550), checkedAt: new Date(today.getTime() - 7 * 86_400_000) });
   });
 }
 
