@@ -14,10 +14,12 @@ import {
   themeQuartz,
   type CellClassParams,
   type CellKeyDownEvent,
+  type CellValueChangedEvent,
   type ColDef,
   type GridApi,
+  type GridReadyEvent,
 } from "ag-grid-community";
-import { useEffect, useMemo, useRef, type RefObject } from "react";
+import { useCallback, useEffect, useMemo, useRef, type RefObject } from "react";
 import { PROCESS_LABELS, PROCESSES, type PartField, type PartRow, type RowErrors } from "~/lib/catalogue";
 import type { DisplayUnit } from "~/lib/units";
 
@@ -54,6 +56,10 @@ function isBad(params: CellClassParams<PartRow>) {
   const field = params.colDef.field as PartField | undefined;
   return Boolean(params.data && field && errors[params.data.key]?.[field]);
 }
+
+// Stable props: AG Grid re-applies any option whose identity changes, which can cut into an edit.
+const DEFAULT_COL: ColDef<PartRow> = { sortable: false, suppressMovable: true };
+const rowId = (p: { data: PartRow }) => p.data.key;
 
 type GridContext = { errors: RefObject<RowErrors>; remove: (row: PartRow) => void };
 
@@ -123,6 +129,31 @@ export function PartsGrid({
     [apiRef, onRowsChange],
   );
 
+  const onCellValueChanged = useCallback(
+    (e: CellValueChangedEvent<PartRow>) => {
+      // Out of the grid's own key handling: React would otherwise render, and refresh the red cells, in the
+      // middle of a Tab that is still moving the editor to the next cell, and the keyboard got lost now and then.
+      const key = e.data.key;
+      const field = e.colDef.field as PartField;
+      setTimeout(() => {
+        onCellEdited(key, field);
+        onRowsChange(allRows(e.api));
+      });
+    },
+    [onCellEdited, onRowsChange],
+  );
+  const onCellKeyDown = useCallback(
+    (e: CellKeyDownEvent<PartRow>) => {
+      const key = (e.event as KeyboardEvent | null)?.key;
+      if (e.column.getColId() === "remove" && e.data && (key === "Enter" || key === "Delete" || key === " ")) {
+        (e.event as KeyboardEvent).preventDefault();
+        context.remove(e.data);
+      }
+    },
+    [context],
+  );
+  const onGridReady = useCallback((e: GridReadyEvent<PartRow>) => (apiRef.current = e.api), [apiRef]);
+
   const columns = useMemo<ColDef<PartRow>[]>(() => {
     const editable = !readOnly;
     const cols: ColDef<PartRow>[] = [
@@ -172,8 +203,8 @@ export function PartsGrid({
       theme={THEME}
       rowData={rowData}
       columnDefs={columns}
-      defaultColDef={{ sortable: false, suppressMovable: true }}
-      getRowId={(p) => p.data.key}
+      defaultColDef={DEFAULT_COL}
+      getRowId={rowId}
       context={context}
       domLayout="autoHeight"
       rowHeight={44}
@@ -182,18 +213,9 @@ export function PartsGrid({
       stopEditingWhenCellsLoseFocus
       enterNavigatesVerticallyAfterEdit
       suppressNoRowsOverlay
-      onGridReady={(e) => (apiRef.current = e.api)}
-      onCellValueChanged={(e) => {
-        onCellEdited(e.data.key, e.colDef.field as PartField);
-        onRowsChange(allRows(e.api));
-      }}
-      onCellKeyDown={(e: CellKeyDownEvent<PartRow>) => {
-        const key = (e.event as KeyboardEvent | null)?.key;
-        if (e.column.getColId() === "remove" && e.data && (key === "Enter" || key === "Delete" || key === " ")) {
-          (e.event as KeyboardEvent).preventDefault();
-          context.remove(e.data);
-        }
-      }}
+      onGridReady={onGridReady}
+      onCellValueChanged={onCellValueChanged}
+      onCellKeyDown={onCellKeyDown}
     />
   );
 }

@@ -41,7 +41,6 @@ function Editor({ productId, values, currency, materials, parts: ctx, canWrite, 
   const [rows, setRows] = useState<PartRow[]>(initialRows);
   const [touched, setTouched] = useState<Set<string>>(() => new Set());
   const [showAll, setShowAll] = useState(Boolean(rejected));
-  const [blocked, setBlocked] = useState(false);
   const apiRef = useRef<GridApi<PartRow> | null>(null);
 
   const clientCheck = useMemo(() => validatePartRows(rows, ctx), [rows, ctx]);
@@ -86,20 +85,23 @@ function Editor({ productId, values, currency, materials, parts: ctx, canWrite, 
     if (!check.ok) {
       event.preventDefault();
       setShowAll(true);
-      setBlocked(true);
-    } else setBlocked(false);
+    }
   }
 
   const problems = Object.entries(visible).flatMap(([key, fields]) => {
     const index = rows.findIndex((r) => r.key === key);
     return Object.entries(fields).map(([field, message]) => ({ id: `${key}:${field}`, text: `Row ${index + 1}${rows[index]?.name ? ` (${rows[index].name})` : ""}, ${PART_FIELD_LABELS[field as PartField]}: ${message}` }));
   });
-  const partsMessage = errors.parts ?? (blocked ? (clientCheck.ok ? undefined : (clientCheck.formError ?? "Some parts need correcting: see the cells marked in red.")) : undefined);
-
-  const title = productId ? shown.name || "Product" : "New product";
+  // The server's word on the rows it was sent, until they change; then the browser's, by the same rules.
+  const partsMessage =
+    rows === initialRows && errors.parts
+      ? errors.parts
+      : showAll && !clientCheck.ok
+        ? (clientCheck.formError ?? "Some parts need correcting: see the cells marked in red.")
+        : undefined;
   return (
     <div className="space-y-6">
-      <PageHeader eyebrow="Owner" title={productId ? (values?.name ?? title) : title}>
+      <PageHeader eyebrow="Owner" title={productId ? (values?.name ?? "Product") : "New product"}>
         A product is a bill of parts: each part's finished size, material, how many go into one product, and how it is cut.
       </PageHeader>
       <p>
@@ -120,18 +122,16 @@ function Editor({ productId, values, currency, materials, parts: ctx, canWrite, 
         </section>
 
         <section className="space-y-3" aria-labelledby="parts-heading">
-          <div className="flex flex-wrap items-end justify-between gap-3">
-            <div>
-              <h2 id="parts-heading" className="text-xl font-semibold">
-                Parts
-              </h2>
-              {canWrite && (
-                <p className="text-sm text-muted">
-                  Type to edit a cell; Tab moves right, Enter saves and moves down. On the × cell, Delete or Enter removes the part. Sizes in {ctx.unit}, or
-                  with a unit (600 mm, 23 5/8&quot;).
-                </p>
-              )}
-            </div>
+          <div>
+            <h2 id="parts-heading" className="text-xl font-semibold">
+              Parts
+            </h2>
+            {canWrite && (
+              <p className="text-sm text-muted">
+                Type to edit a cell; Tab moves right, Enter saves and moves down. On the × cell, Delete or Enter removes the part. Sizes in {ctx.unit}, or with
+                a unit (600 mm, 23 5/8&quot;).
+              </p>
+            )}
           </div>
           {materials.length === 0 && (
             <FormAlert tone="warn">

@@ -23,6 +23,13 @@ function watchErrors(page: Page): string[] {
 }
 
 const cell = (page: Page, row: number, col: string) => page.locator(`.ag-row[row-index="${row}"] [col-id="${col}"]`);
+/** The cell whose editor (input or picker) has the keyboard, waited for: keys sent before it has it are lost. */
+const editorOf = (page: Page, row: number, col: string) => cell(page, row, col).locator('input:focus, [role="combobox"]:focus');
+async function tabTo(page: Page, row: number, col: string, key = "Tab") {
+  await page.keyboard.press(key);
+  await editorOf(page, row, col).waitFor();
+}
+const focusedCol = (page: Page) => page.evaluate(() => document.activeElement?.closest("[col-id]")?.getAttribute("col-id"));
 const isRed = async (page: Page, row: number, col: string) => ((await cell(page, row, col).getAttribute("class")) ?? "").includes("bg-bad-soft");
 
 describe("the catalogue in chromium", () => {
@@ -62,21 +69,19 @@ describe("the catalogue in chromium", () => {
 
     // Part 1: Add part opens the name cell for typing; Tab walks the row.
     await page.getByRole("button", { name: "Add part" }).focus();
-    await page.keyboard.press("Enter");
-    await cell(page, 0, "name").locator("input:focus").waitFor();
+    await tabTo(page, 0, "name", "Enter");
     await page.keyboard.type("Sign face");
-    await page.keyboard.press("Tab");
+    await tabTo(page, 0, "length");
     await page.keyboard.type("600");
-    await page.keyboard.press("Tab");
+    await tabTo(page, 0, "width");
     await page.keyboard.type("0");
-    await page.keyboard.press("Tab"); // on to the material: the width is read and found wanting
+    await tabTo(page, 0, "materialId"); // leaving the width, it is read and found wanting
     await expect.poll(() => isRed(page, 0, "width")).toBe(true);
     await page.getByText("Row 1 (Sign face), Width: Must be more than zero.").waitFor();
     expect(await isRed(page, 0, "length")).toBe(false);
 
     // Back to the width, fix it, Enter to save the cell.
-    await page.keyboard.press("Shift+Tab");
-    await cell(page, 0, "width").locator("input:focus").waitFor();
+    await tabTo(page, 0, "width", "Shift+Tab");
     await page.keyboard.press("Control+A");
     await page.keyboard.type("400");
     await page.keyboard.press("Enter");
@@ -85,27 +90,26 @@ describe("the catalogue in chromium", () => {
 
     // Part 2 in MDF, two per product, grain locked.
     await page.getByRole("button", { name: "Add part" }).focus();
-    await page.keyboard.press("Enter");
-    await cell(page, 1, "name").locator("input:focus").waitFor();
+    await tabTo(page, 1, "name", "Enter");
     await page.keyboard.type("Stand");
-    await page.keyboard.press("Tab");
+    await tabTo(page, 1, "length");
     await page.keyboard.type("150");
-    await page.keyboard.press("Tab");
+    await tabTo(page, 1, "width");
     await page.keyboard.type("80");
-    await page.keyboard.press("Tab");
-    const picker = cell(page, 1, "materialId").locator('[role="combobox"]');
-    await picker.and(page.locator(":focus")).waitFor();
+    await tabTo(page, 1, "materialId");
     await page.keyboard.press("Enter"); // open the material list
     await page.locator('[role="combobox"][aria-expanded="true"]').waitFor();
     await page.keyboard.press("ArrowDown");
     await page.keyboard.press("Enter");
     await page.locator('[role="combobox"][aria-expanded="true"]').waitFor({ state: "detached" });
+    // Choosing ends that edit; Tab moves on, and typing into a focused cell starts editing it.
     await page.keyboard.press("Tab");
-    await page.keyboard.press("Control+A");
+    await expect.poll(() => focusedCol(page)).toBe("quantity");
     await page.keyboard.type("2");
-    await page.keyboard.press("Tab");
+    await editorOf(page, 1, "quantity").waitFor();
+    await tabTo(page, 1, "grainLocked");
     await page.keyboard.press("Space");
-    await page.keyboard.press("Tab");
+    await tabTo(page, 1, "process");
     await page.keyboard.press("Escape");
     expect(await cell(page, 1, "materialId").textContent()).toBe("MDF 6 mm");
 
@@ -153,9 +157,13 @@ describe("the catalogue in chromium", () => {
     await page.goto(`${app.url}/catalogue/products/${product.id}`, { waitUntil: "networkidle" });
     // Onto Card B's name (a click starts editing; Escape leaves the cell focused), then right to the × cell.
     await cell(page, 1, "name").click();
+    await editorOf(page, 1, "name").waitFor();
     await page.keyboard.press("Escape");
-    for (let i = 0; i < 7; i++) await page.keyboard.press("ArrowRight");
-    expect(await page.evaluate(() => document.activeElement?.getAttribute("col-id"))).toBe("remove");
+    await expect.poll(() => page.evaluate(() => document.activeElement?.getAttribute("col-id"))).toBe("name");
+    for (const col of ["length", "width", "materialId", "quantity", "grainLocked", "process", "remove"]) {
+      await page.keyboard.press("ArrowRight");
+      await expect.poll(() => focusedCol(page)).toBe(col);
+    }
     await page.keyboard.press("Delete");
     await expect.poll(() => page.locator(".ag-row").count()).toBe(1);
     await page.getByRole("button", { name: "Save product" }).click();
