@@ -1,5 +1,5 @@
-import { and, asc, desc, eq, inArray, lte, notExists, sql } from "drizzle-orm";
-import { batches, batchLines, customers, heldLines, materials, orderLines, orders, plans, productParts, products, shops } from "../../db/schema";
+import { and, asc, desc, eq, inArray, isNull, lte, notExists, sql } from "drizzle-orm";
+import { batches, batchLines, customers, heldLines, materials, orderLines, orders, plans, productParts, products, recutParts, shops } from "../../db/schema";
 import { getDb } from "~/db.server";
 import type { BatchSource } from "~/lib/batch-parts";
 import { batchCode } from "~/lib/batches";
@@ -41,20 +41,38 @@ function unbatchedLines(db: Db, shopId: string, dueBy: string) {
     .orderBy(asc(materials.name), asc(orders.dueDate), asc(orders.number), asc(products.name));
 }
 
-export type ProposedBatch = { materialId: string; materialName: string; lines: Awaited<ReturnType<typeof unbatchedLines>> };
-
-/** One proposed batch per material (a material is one thickness) of the confirmed lines due by `dueBy`. */
-export async function proposeBatches(shopId: string, dueBy: string): Promise<ProposedBatch[]> {
-  return groupByMaterial(await unbatchedLines(getDb(), shopId, dueBy));
+/** Spoiled parts waiting to be cut again, whatever their due date: they are late already. */
+function openRecuts(db: Db, shopId: string) {
+  return db
+    .select({ id: recutParts.id, materialId: recutParts.materialId, materialName: materials.name, partName: recutParts.partName, reason: recutParts.reason, origin: recutParts.origin })
+    .from(recutParts)
+    .innerJoin(materials, eq(materials.id, recutParts.materialId))
+    .where(and(eq(recutParts.shopId, shopId), isNull(recutParts.batchId)))
+    .orderBy(asc(recutParts.createdAt));
 }
 
-function groupByMaterial(rows: Awaited<ReturnType<typeof unbatchedLines>>): ProposedBatch[] {
+export type ProposedBatch = {
+  materialId: string;
+  materialName: string;
+  lines: Awaited<ReturnType<typeof unbatchedLines>>;
+  recuts: Awaited<ReturnType<typeof openRecuts>>;
+};
+
+/** One proposed batch per material (a material is one thickness) of the confirmed lines due by `dueBy`, and parts to cut again. */
+export async function proposeBatches(shopId: string, dueBy: string): Promise<ProposedBatch[]> {
+  const db = getDb();
+  return groupByMaterial(await unbatchedLines(db, shopId, dueBy), await openRecuts(db, shopId));
+}
+
+function groupByMaterial(rows: Awaited<ReturnType<typeof unbatchedLines>>, recuts: Awaited<ReturnType<typeof openRecuts>>): ProposedBatch[] {
   const byMaterial = new Map<string, ProposedBatch>();
-  for (const row of rows) {
-    let group = byMaterial.get(row.materialId);
-    if (!group) byMaterial.set(row.materialId, (group = { materialId: row.materialId, materialName: row.materialName, lines: [] }));
-    group.lines.push(row);
-  }
+  const group = (materialId: string, materialName: string) => {
+    let g = byMaterial.get(materialId);
+    if (!g) byMaterial.set(materialId, (g = { materialId, materialName, lines: [], recuts: [] }));
+    return g;
+  };
+  for (const row of rows) group(row.materialId, row.materialName).lines.push(row);
+  for (const recut of recuts) group(recut.materialId, recut.materialName).recuts.push(recut);
   return [...byMaterial.values()];
 }
 
@@ -62,15 +80,20 @@ function groupByMaterial(rows: Awaited<ReturnType<typeof unbatchedLines>>): Prop
 export async function createBatches(shopId: string, dueBy: string, materialIds?: string[]): Promise<string[]> {
   return getDb().transaction(async (tx) => {
     await tx.select({ id: shops.id }).from(shops).where(eq(shops.id, shopId)).for("update");
-    const groups = groupByMaterial(await unbatchedLines(tx, shopId, dueBy)).filter((g) => !materialIds || materialIds.includes(g.materialId));
+    const groups = groupByMaterial(await unbatchedLines(tx, shopId, dueBy), await openRecuts(tx, shopId)).filter((g) => !materialIds || materialIds.includes(g.materialId));
     const [{ last }] = await tx.select({ last: sql<number>`coalesce(max(${batches.number}), 0)` }).from(batches).where(eq(batches.shopId, shopId));
     const ids: string[] = [];
     for (const [i, group] of groups.entries()) {
       const [batch] = await tx.insert(batches).values({ shopId, number: last + i + 1, materialId: group.materialId, dueBy }).returning({ id: batches.id });
-      await tx
-        .insert(batchLines)
-        .values(group.lines.map((l) => ({ batchId: batch.id, orderLineId: l.lineId, materialId: group.materialId })))
-        .onConflictDoNothing();
+      if (group.lines.length) {
+        await tx
+          .insert(batchLines)
+          .values(group.lines.map((l) => ({ batchId: batch.id, orderLineId: l.lineId, materialId: group.materialId })))
+          .onConflictDoNothing();
+      }
+      if (group.recuts.length) {
+        await tx.update(recutParts).set({ batchId: batch.id }).where(and(inArray(recutParts.id, group.recuts.map((r) => r.id)), isNull(recutParts.batchId)));
+      }
       ids.push(batch.id);
     }
     return ids;
@@ -164,7 +187,26 @@ export async function batchSources(batchId: string, db: Db = getDb()): Promise<B
     .innerJoin(productParts, and(eq(productParts.productId, products.id), eq(productParts.materialId, batchLines.materialId)))
     .where(eq(batchLines.batchId, batchId))
     .orderBy(asc(orders.number), asc(orderLines.id), asc(productParts.name));
-  return rows;
+  // A part to cut again is one item of its own, carrying the origin it had.
+  const recuts = await db.select().from(recutParts).where(eq(recutParts.batchId, batchId)).orderBy(asc(recutParts.createdAt));
+  return [
+    ...rows,
+    ...recuts.map((r) => ({
+      orderId: r.origin?.orderId ?? r.id,
+      orderNumber: r.origin?.orderNumber ?? 0,
+      customerName: r.origin?.customerName ?? "Recut",
+      lineId: r.origin?.lineId ?? r.id,
+      productName: r.origin?.productName ?? r.partName,
+      lineQuantity: 1,
+      personalisation: r.origin?.text ? [r.origin.text] : [],
+      partName: r.partName,
+      lengthUm: r.lengthUm,
+      widthUm: r.widthUm,
+      quantityPerItem: 1,
+      grainLocked: r.grainLocked,
+      process: r.process,
+    })),
+  ];
 }
 
 async function lockOpenBatch(tx: Tx, shopId: string, batchId: string) {

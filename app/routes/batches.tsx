@@ -47,7 +47,7 @@ export default function Batches({ loaderData, actionData }: Route.ComponentProps
   const { batches, proposals, held, dueBy, canWrite } = loaderData;
   const errors: Record<string, string> = actionData?.errors ?? {};
   const [params] = useSearchParams();
-  const lineCount = proposals.reduce((n, p) => n + p.lines.length, 0);
+  const lineCount = proposals.reduce((n, p) => n + p.lines.length + p.recuts.length, 0);
   return (
     <div className="space-y-8">
       <PageHeader eyebrow="Planner" title="Batches">
@@ -69,7 +69,7 @@ export default function Batches({ loaderData, actionData }: Route.ComponentProps
           ) : (
             <>
               <p className="text-muted">
-                {lineCount} order line{lineCount === 1 ? "" : "s"} due by {formatDate(dueBy)} would make {proposals.length} batch{proposals.length === 1 ? "" : "es"}, one per material:
+                {lineCount} order line{lineCount === 1 ? "" : "s"} and parts to cut again due by {formatDate(dueBy)} would make {proposals.length} batch{proposals.length === 1 ? "" : "es"}, one per material:
               </p>
               <ul className="grid gap-3 md:grid-cols-2">
                 {proposals.map((p) => (
@@ -79,6 +79,12 @@ export default function Batches({ loaderData, actionData }: Route.ComponentProps
                       {p.lines.map((l) => (
                         <li key={l.lineId}>
                           #{l.orderNumber} {l.customerName}: {l.quantity} × {l.productName} · due {formatDate(l.dueDate)}
+                        </li>
+                      ))}
+                      {p.recuts.map((r) => (
+                        <li key={r.id}>
+                          To cut again: {r.partName}
+                          {r.origin?.text ? ` (${r.origin.text})` : ""} · {r.reason}
                         </li>
                       ))}
                     </ul>
