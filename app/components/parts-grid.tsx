@@ -94,6 +94,7 @@ export function PartsGrid({
   apiRef,
   onRowsChange,
   onCellEdited,
+  onReady,
 }: {
   initialRows: PartRow[];
   materials: { id: string; name: string }[];
@@ -103,6 +104,7 @@ export function PartsGrid({
   apiRef: RefObject<GridApi<PartRow> | null>;
   onRowsChange: (rows: PartRow[]) => void;
   onCellEdited: (key: string, field: PartField) => void;
+  onReady: () => void;
 }) {
   const errorsRef = useRef(errors);
   errorsRef.current = errors;
@@ -152,7 +154,13 @@ export function PartsGrid({
     },
     [context],
   );
-  const onGridReady = useCallback((e: GridReadyEvent<PartRow>) => (apiRef.current = e.api), [apiRef]);
+  const onGridReady = useCallback(
+    (e: GridReadyEvent<PartRow>) => {
+      apiRef.current = e.api;
+      onReady();
+    },
+    [apiRef, onReady],
+  );
 
   const columns = useMemo<ColDef<PartRow>[]>(() => {
     const editable = !readOnly;

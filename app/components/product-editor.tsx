@@ -42,6 +42,9 @@ function Editor({ productId, values, currency, materials, parts: ctx, canWrite, 
   const [touched, setTouched] = useState<Set<string>>(() => new Set());
   const [showAll, setShowAll] = useState(Boolean(rejected));
   const apiRef = useRef<GridApi<PartRow> | null>(null);
+  // Rows can be added once the grid runs (after hydration); until then the button says so by being off.
+  const [gridReady, setGridReady] = useState(false);
+  const onGridReady = useCallback(() => setGridReady(true), []);
 
   const clientCheck = useMemo(() => validatePartRows(rows, ctx), [rows, ctx]);
   const clientErrors = useMemo<RowErrors>(() => (clientCheck.ok ? {} : clientCheck.rowErrors), [clientCheck]);
@@ -149,6 +152,7 @@ function Editor({ productId, values, currency, materials, parts: ctx, canWrite, 
               apiRef={apiRef}
               onRowsChange={setRows}
               onCellEdited={onCellEdited}
+              onReady={onGridReady}
             />
           </div>
           {rows.length === 0 && <p className="text-sm text-muted">No parts yet.{canWrite ? " Add the first with “Add part”." : ""}</p>}
@@ -157,7 +161,7 @@ function Editor({ productId, values, currency, materials, parts: ctx, canWrite, 
               id="add-part"
               type="button"
               onClick={addPart}
-              disabled={materials.length === 0}
+              disabled={!gridReady || materials.length === 0}
               className="min-h-11 rounded-md border border-edge bg-white px-4 font-semibold text-edge hover:bg-edge-soft disabled:opacity-50"
             >
               Add part
