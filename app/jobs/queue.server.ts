@@ -13,10 +13,19 @@ export function queue(): Promise<PgBoss> {
     if (!url) throw new Error("DATABASE_URL is not set");
     const boss = new PgBoss({ connectionString: url, max: 4 });
     boss.on("error", (error) => console.error("job queue:", error.message));
-    await boss.start();
-    // A plan that fails is shown to the planner with its reason; running it again is their call.
-    await boss.createQueue(PLAN_QUEUE, { name: PLAN_QUEUE, retryLimit: 0, expireInSeconds: 15 * 60 });
-    return boss;
+    // Several processes may start at once on a fresh database (server, runner, tests): whoever
+    // loses the race to create pg-boss's tables or the queue tries again.
+    for (let attempt = 1; ; attempt++) {
+      try {
+        await boss.start();
+        // A plan that fails is shown to the planner with its reason; running it again is their call.
+        if (!(await boss.getQueue(PLAN_QUEUE))) await boss.createQueue(PLAN_QUEUE, { name: PLAN_QUEUE, retryLimit: 0, expireInSeconds: 15 * 60 });
+        return boss;
+      } catch (error) {
+        if (attempt >= 5) throw error;
+        await new Promise((r) => setTimeout(r, 200 * attempt));
+      }
+    }
   })().catch((error) => {
     started = undefined;
     throw error;

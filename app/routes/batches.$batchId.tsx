@@ -54,6 +54,7 @@ export async function loader(args: Route.LoaderArgs) {
     unit,
     currency: shop.currency,
     canWrite: can(user.role, "batches:write"),
+    canSeeFloor: can(user.role, "floor:read"),
   };
 }
 
@@ -111,6 +112,12 @@ export async function action(args: Route.ActionArgs) {
   return redirect(`/batches/${batchId}`);
 }
 
+const fetchFloor = async (url: string): Promise<{ setups: number; ticks: unknown[]; recuts: unknown[] }> => {
+  const res = await fetch(url, { headers: { Accept: "application/json" } });
+  if (!res.ok) throw new Error(`The floor could not be read (${res.status}).`);
+  return res.json();
+};
+
 const fetchPlans = async (url: string): Promise<{ plans: PlanSummary[] }> => {
   const res = await fetch(url, { headers: { Accept: "application/json" } });
   if (!res.ok) throw new Error(`Plans could not be loaded (${res.status}).`);
@@ -131,6 +138,8 @@ export default function BatchPage({ loaderData, actionData }: Route.ComponentPro
     void mutate({ plans: loaderData.plans }, { revalidate: false });
   }, [loaderData.plans, mutate]);
   const plans = live?.plans ?? loaderData.plans;
+  const atSaw = batch.status === "released" && loaderData.canSeeFloor;
+  const { data: floor } = useSWR(atSaw ? `/api/batches/${batch.id}/floor` : null, fetchFloor, { refreshInterval: 5000 });
   const done = plans.filter((p) => p.status === "done");
   const [compare, setCompare] = useState<[string, string]>(["", ""]);
 
@@ -143,6 +152,15 @@ export default function BatchPage({ loaderData, actionData }: Route.ComponentPro
         <BatchBadge status={batch.status} />
       </div>
       {errors.form && <FormAlert>{errors.form}</FormAlert>}
+      {atSaw && (
+        <p className="rounded-lg border border-warn/40 bg-warn-soft p-4 font-medium text-warn" role="status" data-testid="floor-progress">
+          At the saw: {floor ? `${floor.ticks.length} of ${floor.setups} set-ups done` : "waiting for the first tick"}
+          {floor && floor.recuts.length > 0 ? ` · ${floor.recuts.length} part(s) to cut again` : ""}.{" "}
+          <Link to={`/saw/${batch.id}`} className="underline">
+            Open the floor view
+          </Link>
+        </p>
+      )}
       {actionData?.notice && <FormAlert tone="warn">{actionData.notice}</FormAlert>}
 
       <section className="space-y-3">
