@@ -1,4 +1,5 @@
 import { and, eq, inArray } from "drizzle-orm";
+import { createHash } from "node:crypto";
 import { offcuts, stockPanels, type PlanSettings } from "../../db/schema";
 import { getDb } from "~/db.server";
 import { mergeBatchParts, type MergedPart } from "~/lib/batch-parts";
@@ -12,13 +13,28 @@ export const LASER_BLANK_PART = "laser-blank";
 
 export type BatchCutList = { sawn: MergedPart[]; laser: MergedPart[]; blanks: LaserBlank[]; laserUnplaced: { key: string; name: string; quantity: number; reason: string }[] };
 
+// Nesting runs the engine for a few hundred milliseconds; pages ask for the same batch again and
+// again, so results are kept per exact input (parts, texts and bed settings).
+const nestCache = new Map<string, ReturnType<typeof nestLaserParts>>();
+const NEST_CACHE_SIZE = 50;
+
+function nestCached(laser: MergedPart[], shop: ShopSettings) {
+  const settings = { bedLengthUm: shop.laserBedLengthUm, bedWidthUm: shop.laserBedWidthUm, spacingUm: shop.laserSpacingUm, marginUm: shop.laserSpacingUm };
+  const key = createHash("sha256").update(JSON.stringify([laser, settings])).digest("hex");
+  let nested = nestCache.get(key);
+  if (!nested) {
+    nested = nestLaserParts(laser, settings);
+    if (nestCache.size >= NEST_CACHE_SIZE) nestCache.delete(nestCache.keys().next().value!);
+    nestCache.set(key, nested);
+  }
+  return nested;
+}
+
 /** What a batch cuts: its merged sawn parts, and its laser items nested onto bed-sized blanks. */
 export async function batchCutList(batchId: string, shop: ShopSettings): Promise<BatchCutList> {
   const merged = mergeBatchParts(await batchSources(batchId));
   const laser = merged.filter((p) => p.process === "laser");
-  const nested = laser.length
-    ? nestLaserParts(laser, { bedLengthUm: shop.laserBedLengthUm, bedWidthUm: shop.laserBedWidthUm, spacingUm: shop.laserSpacingUm, marginUm: shop.laserSpacingUm })
-    : { blanks: [], unplaced: [] };
+  const nested = laser.length ? nestCached(laser, shop) : { blanks: [], unplaced: [] };
   return { sawn: merged.filter((p) => p.process === "saw"), laser, blanks: nested.blanks, laserUnplaced: nested.unplaced };
 }
 

@@ -22,6 +22,7 @@ import { cancelPlan, listPlans, PlanStateError, releasePlan, requestPlan, sawyer
 import { getShop } from "~/models/shops.server";
 
 const Uuid = v.pipe(v.string(), v.uuid());
+const ORIGINS_SHOWN = 40;
 
 export async function loader(args: Route.LoaderArgs) {
   const user = requirePermission(args, "batches:read");
@@ -41,7 +42,9 @@ export async function loader(args: Route.LoaderArgs) {
     size: formatSize(p.lengthUm, p.widthUm, unit),
     grainLocked: p.grainLocked,
     quantity: p.quantity,
-    origins: p.origins.map((o) => `#${o.orderNumber} ${o.customerName} · ${o.productName}${o.text ? ` · ${o.text}` : ""}`),
+    // The page lists the first origins of a row; the plan view and labels carry all of them.
+    origins: p.origins.slice(0, ORIGINS_SHOWN).map((o) => `#${o.orderNumber} ${o.customerName} · ${o.productName}${o.text ? ` · ${o.text}` : ""}`),
+    orders: new Set(p.origins.map((o) => o.orderId)).size,
   }));
   return {
     batch,
@@ -188,11 +191,14 @@ export default function BatchPage({ loaderData, actionData }: Route.ComponentPro
                     <td className="px-4 py-3 text-right font-semibold tabular-nums">{p.quantity}</td>
                     <td className="px-4 py-3">
                       <details>
-                        <summary className="cursor-pointer text-muted">{p.origins.length} from {new Set(p.origins.map((o) => o.split(" ·")[0])).size} order(s)</summary>
+                        <summary className="cursor-pointer text-muted">
+                          {p.quantity} from {p.orders} order{p.orders === 1 ? "" : "s"}
+                        </summary>
                         <ul className="mt-1 max-h-48 space-y-0.5 overflow-y-auto text-xs">
                           {p.origins.map((o, i) => (
                             <li key={i}>{o}</li>
                           ))}
+                          {p.quantity > p.origins.length && <li className="text-muted">… and {p.quantity - p.origins.length} more</li>}
                         </ul>
                       </details>
                     </td>
