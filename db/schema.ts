@@ -2,6 +2,7 @@
 // (`*_minor`), so no floating-point value is ever stored or summed.
 import { sql } from "drizzle-orm";
 import {
+  bigint,
   boolean,
   date,
   index,
@@ -503,4 +504,40 @@ export const recutParts = pgTable(
     createdAt: createdAt(),
   },
   (t) => [index("recut_parts_open_idx").on(t.shopId, t.materialId, t.batchId)],
+);
+
+export type OrderAllocation = { orderId: string; orderNumber: number; partsAreaMm2: number; costMinor: number };
+export type PanelCost = { kind: "panel" | "offcut"; lengthUm: number; widthUm: number; costMinor: number; partsAreaMm2: number };
+
+// The books of a batch, written in the same transaction that closes it as cut, so later price changes
+// never rewrite what a batch cost. Areas are mm², money minor units.
+export const batchCosts = pgTable(
+  "batch_costs",
+  {
+    batchId: uuid("batch_id")
+      .primaryKey()
+      .references(() => batches.id, { onDelete: "cascade" }),
+    shopId: uuid("shop_id")
+      .notNull()
+      .references(() => shops.id, { onDelete: "cascade" }),
+    materialId: uuid("material_id")
+      .notNull()
+      .references(() => materials.id),
+    cutAt: timestamp("cut_at", { withTimezone: true, mode: "date" }).notNull(),
+    stockAreaMm2: bigint("stock_area_mm2", { mode: "number" }).notNull(),
+    offcutDrawnAreaMm2: bigint("offcut_drawn_area_mm2", { mode: "number" }).notNull(),
+    partsAreaMm2: bigint("parts_area_mm2", { mode: "number" }).notNull(),
+    kerfLossMm2: bigint("kerf_loss_mm2", { mode: "number" }).notNull(),
+    rackedAreaMm2: bigint("racked_area_mm2", { mode: "number" }).notNull(),
+    scrapAreaMm2: bigint("scrap_area_mm2", { mode: "number" }).notNull(),
+    spoiledAreaMm2: bigint("spoiled_area_mm2", { mode: "number" }).notNull(),
+    spoiledCount: integer("spoiled_count").notNull(),
+    costDrawnMinor: bigint("cost_drawn_minor", { mode: "number" }).notNull(),
+    valueReturnedMinor: bigint("value_returned_minor", { mode: "number" }).notNull(),
+    scrapCostMinor: bigint("scrap_cost_minor", { mode: "number" }).notNull(),
+    spoiledCostMinor: bigint("spoiled_cost_minor", { mode: "number" }).notNull(),
+    panels: jsonb("panels").$type<PanelCost[]>().notNull(),
+    allocations: jsonb("allocations").$type<OrderAllocation[]>().notNull(),
+  },
+  (t) => [index("batch_costs_shop_cut_idx").on(t.shopId, t.cutAt)],
 );
