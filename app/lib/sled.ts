@@ -119,7 +119,8 @@ export function kerfComment(kerfUm: number): string {
 export function formatFine(um: number, unit: "mm" | "in"): string {
   const sign = um < 0 ? "−" : "";
   const abs = Math.abs(um);
-  return unit === "mm" ? `${sign}${(abs / 1000).toFixed(3)} mm` : `${sign}${(abs / 25_400).toFixed(4)} in`;
+  // Rounded half up on integers first: (3.175).toFixed(2) would give "3.17".
+  return unit === "mm" ? `${sign}${(Math.round(abs) / 1000).toFixed(3)} mm` : `${sign}${(Math.round((abs / 25_400) * 10_000) / 10_000).toFixed(4)} in`;
 }
 
 /** The error per metre of crosscut in the shop's unit: "0.850 mm per metre" or "0.0102 in per foot". */
@@ -129,5 +130,5 @@ export function formatErrorRate(umPerM: number, unit: "mm" | "in"): string {
 
 /** A kerf: "3.20 mm" or "0.126 in" (a blade is measured finer than 0.1 mm or 1/32 in). */
 export function formatKerf(um: number, unit: "mm" | "in"): string {
-  return unit === "mm" ? `${(um / 1000).toFixed(2)} mm` : `${(um / 25_400).toFixed(3)} in`;
+  return unit === "mm" ? `${(Math.round(um / 10) / 100).toFixed(2)} mm` : `${(Math.round((um / 25_400) * 1000) / 1000).toFixed(3)} in`;
 }

@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { checkStatus, fiveCut, sledWarning } from "~/lib/sled";
+import { sheetLength, sheetSize } from "~/lib/setup-sheet";
 import { parseLength } from "~/lib/units";
 
 const um = (text: string) => {
@@ -74,5 +75,31 @@ describe("when the set-up sheet warns about the sled", () => {
   it("flags a check on its own as stale or out of tolerance", () => {
     expect(checkStatus({ checkedAt: daysAgo(100), errorUmPerM: 20 }, 150, now)).toEqual({ stale: true, outOfTolerance: false, ageDays: 100 });
     expect(checkStatus({ checkedAt: daysAgo(1), errorUmPerM: -151 }, 150, now)).toEqual({ stale: false, outOfTolerance: true, ageDays: 1 });
+  });
+});
+
+describe("figures on the set-up sheet", () => {
+  // 1 in = 25.4 mm exactly (NIST, TRADE-FACTS §5); the rounding values are TRADE-FACTS §5's nearest 1/32.
+  it("prints exact inch figures as they are", () => {
+    expect(sheetLength(48 * UM_PER_INCH, "in")).toBe("48 in");
+    expect(sheetLength(600_075, "in")).toBe("23-5/8 in"); // 23.625 in × 25.4
+    expect(sheetLength(3_175, "in")).toBe("1/8 in");
+    expect(sheetSize(48 * UM_PER_INCH, 24 * UM_PER_INCH, "in")).toBe("48 × 24 in");
+  });
+
+  it("marks rounded inch figures and gives the millimetres", () => {
+    expect(sheetLength(1_220_000, "in")).toBe("≈ 48-1/32 in (1220 mm)");
+    expect(sheetLength(2_440_000, "in")).toBe("≈ 96-1/16 in (2440 mm)");
+    expect(sheetLength(1_250_000, "in")).toBe("≈ 49-7/32 in (1250 mm)");
+    expect(sheetLength(1_525_000, "in")).toBe("≈ 60-1/32 in (1525 mm)");
+    expect(sheetLength(18_000, "in")).toBe("≈ 23/32 in (18 mm)");
+    expect(sheetLength(12_000, "in")).toBe("≈ 15/32 in (12 mm)");
+    expect(sheetSize(1_220_000, 48 * UM_PER_INCH, "in")).toBe("≈ 48-1/32 in (1220 mm) × 48 in");
+  });
+
+  it("prints millimetres to 0.1", () => {
+    expect(sheetLength(303_200, "mm")).toBe("303.2 mm");
+    expect(sheetLength(1_220_000, "mm")).toBe("1220 mm");
+    expect(sheetSize(2_440_000, 1_220_000, "mm")).toBe("2440 × 1220 mm");
   });
 });
