@@ -283,7 +283,7 @@ const SETUP_KIND: Record<Setup["kind"], string> = { breakdown: "Breakdown", rip:
 const SETTING_NAME: Record<Setup["kind"], string> = { breakdown: "mark", rip: "fence", crosscut: "stop" };
 
 /** The plan's set-ups in cutting order: one fence or stop setting each, with how many cuts it serves. */
-export function SetupList({ setups, unit }: { setups: Setup[]; unit: DisplayUnit }) {
+export function SetupList({ setups, unit, ripMaxMm }: { setups: Setup[]; unit: DisplayUnit; /** the rip fence's widest setting: wider ones are flagged */ ripMaxMm?: number }) {
   if (setups.length === 0) return <p className="text-sm text-muted">No saw set-ups in this plan.</p>;
   return (
     <ol className="list-decimal space-y-1 pl-6 text-ink">
@@ -295,6 +295,9 @@ export function SetupList({ setups, unit }: { setups: Setup[]; unit: DisplayUnit
           {" · "}
           {setup.count} {setup.count === 1 ? "cut" : "cuts"}
           {setup.outsideStopRange && <span className="ml-2 text-warn">outside the stop block's range: cut to a marked line</span>}
+          {setup.kind !== "crosscut" && ripMaxMm !== undefined && setup.setting > ripMaxMm && (
+            <span className="ml-2 text-warn">wider than the rip fence allows: break down on another tool to a marked line</span>
+          )}
         </li>
       ))}
     </ol>

@@ -5,6 +5,7 @@ import { requirePermission } from "~/auth.server";
 import { PageHeader } from "~/components/page-header";
 import { PanelDrawing, SetupList, type PartLabel } from "~/components/panel-drawing";
 import { mmToUm } from "~/lib/packing";
+import { can } from "~/lib/permissions";
 import { formatSize } from "~/lib/units";
 import { getBatch } from "~/models/batches.server";
 import { batchCutList, LASER_BLANK_PART } from "~/models/plan-job.server";
@@ -34,16 +35,31 @@ export async function loader(args: Route.LoaderArgs) {
     const size = formatSize(mmToUm(sheet.length), mmToUm(sheet.width), unit);
     return { sheet, title: `Panel ${i + 1} of ${packed.sheets.length}: ${ref?.kind === "offcut" ? "racked offcut" : "full sheet"} ${size}` };
   });
-  return { batch, number: plan.number, sheets, labels, setups: packed.setups, kerf: plan.settings.kerfMm, unit, unplaced: packed.unplaced, metrics: packed.metrics };
+  return { batch, number: plan.number, sheets, labels, setups: packed.setups, kerf: plan.settings.kerfMm, unit, unplaced: packed.unplaced, metrics: packed.metrics, ripMaxMm: shop.ripMaxUm / 1000, printable: batch.chosenPlanId === plan.id && batch.status !== "open" && batch.status !== "planned" && can(user.role, "floor:read") };
 }
 
 export default function PlanView({ loaderData }: Route.ComponentProps) {
-  const { batch, number, sheets, labels, setups, kerf, unit, unplaced, metrics } = loaderData;
+  const { batch, number, sheets, labels, setups, kerf, unit, unplaced, metrics, ripMaxMm, printable } = loaderData;
   return (
     <div className="space-y-6">
       <PageHeader eyebrow={`${batch.code} · ${batch.materialName}`} title={`Plan ${number}`}>
         {metrics.sheets} panels · yield {(metrics.yield * 100).toFixed(1)} % · {metrics.setups} fence and stop settings · kerf {kerf} mm. Tap a part to see its orders.
       </PageHeader>
+      {printable && (
+        <p className="flex flex-wrap gap-3">
+          {/* Released to the saw: the sheet and labels print from here (A4 or US Letter). */}
+          {[
+            ["setup-sheet", "Set-up sheet"],
+            ["labels", "Part labels"],
+          ].map(([path, name]) =>
+            (["a4", "letter"] as const).map((paper) => (
+              <a key={path + paper} href={`/batches/${batch.id}/${path}?paper=${paper}`} className="inline-flex min-h-11 items-center rounded-md border border-line bg-white px-4 font-medium hover:border-edge">
+                {name} ({paper === "a4" ? "A4" : "Letter"}, PDF)
+              </a>
+            )),
+          )}
+        </p>
+      )}
       {unplaced.length > 0 && (
         <p className="rounded-md border border-warn/40 bg-warn-soft p-3 text-sm text-warn">
           Not placed: {unplaced.map((u) => `${u.quantity} × ${labels[u.partId]?.name ?? u.partId} (${u.reason})`).join("; ")}
@@ -60,7 +76,7 @@ export default function PlanView({ loaderData }: Route.ComponentProps) {
         </div>
         <aside className="space-y-3 xl:sticky xl:top-6 xl:self-start">
           <h2 className="text-xl font-semibold">Set-ups in cutting order</h2>
-          <SetupList setups={setups} unit={unit} />
+          <SetupList setups={setups} unit={unit} ripMaxMm={ripMaxMm} />
         </aside>
       </div>
       <Link to={`/batches/${batch.id}`} className="text-edge underline">
