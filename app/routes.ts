@@ -1,12 +1,11 @@
 import { type RouteConfig, index, layout, route } from "@react-router/dev/routes";
 
-// Areas not built yet share one placeholder module; each gets its own route id.
-const placeholder = (path: string) => route(path, "routes/area-placeholder.tsx", { id: `placeholder-${path}` });
-
 export default [
   route("api/health", "routes/api.health.ts"),
   route("api/me", "routes/api.me.ts"),
   route("api/orders", "routes/api.orders.ts"),
+  route("api/ledger", "routes/api.ledger.ts"),
+  route("ledger.csv", "routes/ledger.csv.ts"),
   route("api/batches/:batchId/plans", "routes/api.batches.$batchId.plans.ts"),
   route("api/batches/:batchId/floor", "routes/api.batches.$batchId.floor.ts"),
   route("batches/:batchId/setup-sheet", "routes/batches.$batchId.setup-sheet.ts"),
@@ -38,7 +37,8 @@ export default [
     route("saw", "routes/saw.tsx"),
     route("saw/:batchId", "routes/saw.$batchId.tsx"),
     route("sleds", "routes/sleds.tsx"),
-    placeholder("ledger"),
+    route("ledger", "routes/ledger.tsx"),
+    route("ledger/batches/:batchId", "routes/ledger.batches.$batchId.tsx"),
     route("settings", "routes/settings.tsx"),
     route("team", "routes/team.tsx"),
     route("dev/outbox", "routes/dev.outbox.tsx"),

@@ -7,7 +7,6 @@ export type Area = {
   label: string;
   forWhom: string;
   summary: string;
-  comingSoon: string[];
 };
 
 export const AREAS: Area[] = [
@@ -17,11 +16,6 @@ export const AREAS: Area[] = [
     label: "Orders",
     forWhom: "Owner",
     summary: "Who ordered what, for which event date, and when it must leave the shop.",
-    comingSoon: [
-      "Orders with their customer, event date and due date, moving from draft to delivered",
-      "Personalisation texts per item, typed or uploaded as CSV, and artwork files",
-      "Confirmation e-mails to customers, with deposits",
-    ],
   },
   {
     path: "/customers",
@@ -29,7 +23,6 @@ export const AREAS: Area[] = [
     label: "Customers",
     forWhom: "Owner",
     summary: "The people and businesses the shop makes for.",
-    comingSoon: ["Names, e-mail addresses, phone numbers and notes", "Search, and each customer's orders"],
   },
   {
     path: "/catalogue",
@@ -37,10 +30,6 @@ export const AREAS: Area[] = [
     label: "Catalogue",
     forWhom: "Owner",
     summary: "What the shop sells, each product as a bill of parts.",
-    comingSoon: [
-      "Products with their parts: finished size, material, quantity, grain, sawn or laser-cut",
-      "Materials and the stock panels they come in",
-    ],
   },
   {
     path: "/batches",
@@ -48,11 +37,6 @@ export const AREAS: Area[] = [
     label: "Batches",
     forWhom: "Planner",
     summary: "What is due, grouped per material and thickness, laid out on panels.",
-    comingSoon: [
-      "Batches proposed from confirmed orders due by a date",
-      "Plans from the packing engine, drawn to scale, compared side by side",
-      "Release to the saw, reserving panels and offcuts",
-    ],
   },
   {
     path: "/rack",
@@ -60,7 +44,6 @@ export const AREAS: Area[] = [
     label: "Offcut rack",
     forWhom: "Planner",
     summary: "Reusable offcuts by material, with their size and where they sit.",
-    comingSoon: ["Offcuts per material with size, rack location and the batch that made them", "Full-sheet stock counts"],
   },
   {
     path: "/saw",
@@ -68,11 +51,6 @@ export const AREAS: Area[] = [
     label: "Saw station",
     forWhom: "Sawyer",
     summary: "The released batches, set-up by set-up, for the tablet beside the saw.",
-    comingSoon: [
-      "Set-up sheets as PDF: panels to pull, rip and stop settings, tally boxes, cautions",
-      "Ticking set-ups, recording spoiled parts, racking offcuts",
-      "Part labels",
-    ],
   },
   {
     path: "/sleds",
@@ -80,7 +58,6 @@ export const AREAS: Area[] = [
     label: "Sleds & saws",
     forWhom: "Sawyer",
     summary: "Measured blade kerf per saw, and squareness checks of each crosscut sled.",
-    comingSoon: ["Kerf measurements from test cuts", "Five-cut sled checks with the correction to make"],
   },
   {
     path: "/ledger",
@@ -88,7 +65,6 @@ export const AREAS: Area[] = [
     label: "Ledger",
     forWhom: "Bookkeeper",
     summary: "What each batch cost and what became scrap or a reusable offcut.",
-    comingSoon: ["Material cost and waste per batch, order and month", "Cost allocated to orders by area", "CSV export"],
   },
   {
     path: "/team",
@@ -96,7 +72,6 @@ export const AREAS: Area[] = [
     label: "Team",
     forWhom: "Owner",
     summary: "The people of the shop and their roles.",
-    comingSoon: ["Invitations by e-mail", "Roles: owner, planner, sawyer, bookkeeper"],
   },
   {
     path: "/settings",
@@ -104,7 +79,6 @@ export const AREAS: Area[] = [
     label: "Shop settings",
     forWhom: "Owner",
     summary: "Units, currency, kerf, trim, laser bed and saw capacities.",
-    comingSoon: ["Display unit (millimetres or fractional inches) and currency", "Default kerf, edge trim, minimum offcut, saw and laser limits"],
   },
 ];
 

@@ -1,5 +1,8 @@
 import { and, asc, desc, eq, inArray, sql } from "drizzle-orm";
-import { batches, materials, offcuts, plans, recutParts, setupTicks, type RecutOrigin } from "../../db/schema";
+import { batchCosts, batches, materials, offcuts, plans, recutParts, setupTicks, stockPanels, type RecutOrigin } from "../../db/schema";
+import { batchLedger } from "~/lib/ledger";
+import { batchSources } from "./batches.server";
+import { cheapestCostPerArea } from "./plan-job.server";
 import { getDb } from "~/db.server";
 import type { Setup } from "~/lib/packing/types";
 import type { PlanResult } from "./plans.server";
@@ -116,8 +119,58 @@ export async function closeBatchAsCut(shopId: string, batchId: string, decisions
         .where(eq(offcuts.id, id));
     }
     await tx.update(offcuts).set({ status: "used" }).where(and(eq(offcuts.reservedBatchId, batchId), eq(offcuts.status, "reserved")));
-    await tx.update(batches).set({ status: "cut", cutAt: new Date() }).where(eq(batches.id, batchId));
+    const cutAt = new Date();
+    await tx.update(batches).set({ status: "cut", cutAt }).where(eq(batches.id, batchId));
+    await writeBatchCosts(tx, shopId, batch, cutAt, decisions.filter((d) => d.rack));
     return true;
+  });
+}
+
+type Tx = Parameters<Parameters<ReturnType<typeof getDb>["transaction"]>[0]>[0];
+
+/** The batch's books, fixed at the moment it is cut (app/lib/ledger.ts states the rules). */
+async function writeBatchCosts(tx: Tx, shopId: string, batch: typeof batches.$inferSelect, cutAt: Date, racked: RackDecision[]) {
+  const [plan] = await tx.select({ result: plans.result }).from(plans).where(eq(plans.id, batch.chosenPlanId!));
+  const result = plan.result as PlanResult;
+  const panels = await tx.select().from(stockPanels).where(and(eq(stockPanels.shopId, shopId), eq(stockPanels.materialId, batch.materialId)));
+  const ratePerMm2 = cheapestCostPerArea(panels) * 1e6; // per µm² → per mm²
+  const sheets = result.plan.sheets.map((sheet) => {
+    const ref = result.stockRefs[sheet.stockId];
+    return {
+      kind: ref.kind,
+      lengthUm: Math.round(sheet.length * 1000),
+      widthUm: Math.round(sheet.width * 1000),
+      costMinor: ref.costMinor,
+      partsAreaMm2: Math.round(sheet.placements.reduce((a, p) => a + p.length * p.width, 0)),
+    };
+  });
+  const spoiled = await tx.select({ lengthUm: recutParts.lengthUm, widthUm: recutParts.widthUm }).from(recutParts).where(eq(recutParts.spoiledInBatchId, batch.id));
+  const byOrder = new Map<string, { orderId: string; orderNumber: number; partsAreaMm2: number }>();
+  for (const s of await batchSources(batch.id, tx)) {
+    const o = byOrder.get(s.orderId) ?? { orderId: s.orderId, orderNumber: s.orderNumber, partsAreaMm2: 0 };
+    o.partsAreaMm2 += Math.round((s.lineQuantity * s.quantityPerItem * s.lengthUm * s.widthUm) / 1e6);
+    byOrder.set(s.orderId, o);
+  }
+  const ledger = batchLedger({ sheets, kerfLossMm2: result.plan.metrics.kerfLoss, racked, ratePerMm2, spoiled, orders: [...byOrder.values()] });
+  await tx.insert(batchCosts).values({
+    batchId: batch.id,
+    shopId,
+    materialId: batch.materialId,
+    cutAt,
+    stockAreaMm2: ledger.stockAreaMm2,
+    offcutDrawnAreaMm2: ledger.offcutDrawnAreaMm2,
+    partsAreaMm2: ledger.partsAreaMm2,
+    kerfLossMm2: ledger.kerfLossMm2,
+    rackedAreaMm2: ledger.rackedAreaMm2,
+    scrapAreaMm2: ledger.scrapAreaMm2,
+    spoiledAreaMm2: ledger.spoiledAreaMm2,
+    spoiledCount: ledger.spoiledCount,
+    costDrawnMinor: ledger.costDrawnMinor,
+    valueReturnedMinor: ledger.valueReturnedMinor,
+    scrapCostMinor: ledger.scrapCostMinor,
+    spoiledCostMinor: ledger.spoiledCostMinor,
+    panels: sheets,
+    allocations: ledger.allocations,
   });
 }
 

@@ -17,6 +17,7 @@ import { sendConfirmation } from "~/models/confirmation.server";
 import { customerChoices } from "~/models/customers.server";
 import { readOrderForm, withStoredArtwork } from "~/models/order-input.server";
 import { addLines, getOrder, moveOrder, OrderStateError, productChoices, removeLine, updateHeader } from "~/models/orders.server";
+import { orderMaterialCost } from "~/models/ledger.server";
 import { getShop } from "~/models/shops.server";
 import { deleteStoredFiles } from "~/storage.server";
 
@@ -27,12 +28,13 @@ export async function loader(args: Route.LoaderArgs) {
   const order = v.is(Uuid, args.params.orderId) ? await getOrder(user.shopId, args.params.orderId) : null;
   if (!order) throw data("No such order in this shop.", { status: 404 });
   const canWrite = can(user.role, "orders:write");
-  const [shop, products, customers] = await Promise.all([
+  const [shop, products, customers, materialCost] = await Promise.all([
     getShop(user.shopId),
     canWrite ? productChoices(user.shopId) : [],
     canWrite ? customerChoices(user.shopId) : [],
+    can(user.role, "ledger:read") ? orderMaterialCost(user.shopId, order.id) : null,
   ]);
-  return { order, currency: shop.currency, canWrite, products, customers };
+  return { order, currency: shop.currency, canWrite, products, customers, materialCost };
 }
 
 const ActionSchema = v.variant("intent", [
@@ -111,7 +113,7 @@ const MOVE_LABELS: Partial<Record<string, string>> = {
 };
 
 export default function OrderPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { order, currency, canWrite, products, customers } = loaderData;
+  const { order, currency, canWrite, products, customers, materialCost } = loaderData;
   const errors: Record<string, string> = actionData?.errors ?? {};
   const editable = canWrite && linesEditable(order.status);
   return (
@@ -123,6 +125,11 @@ export default function OrderPage({ loaderData, actionData }: Route.ComponentPro
         <div className="text-right">
           <StatusBadge status={order.status} />
           <p className="mt-2 text-2xl font-semibold tabular-nums">{formatMoney(order.totalMinor, currency)}</p>
+          {materialCost && (
+            <p className="text-sm text-muted" data-testid="material-cost">
+              Material {formatMoney(materialCost.costMinor, currency)} · margin {formatMoney(order.totalMinor - materialCost.costMinor, currency)}
+            </p>
+          )}
         </div>
       </div>
 

@@ -57,3 +57,25 @@ export async function batchScenario() {
   return { shop, birch6, birch3, sheet6, wedding, party, later, draft };
 }
 
+
+/** Plans, releases and closes as cut a batch of the scenario's 6 mm lines due by `dueBy` (needs a plan runner). */
+export async function cutBatch(s: Awaited<ReturnType<typeof batchScenario>>, dueBy: string) {
+  const { createBatches } = await import("~/models/batches.server");
+  const { releasePlan, requestPlan } = await import("~/models/plans.server");
+  const { closeBatchAsCut, expectedOffcuts, tickSetup } = await import("~/models/floor.server");
+  const [batchId] = await createBatches(s.shop.id, dueBy, [s.birch6.id]);
+  const planId = await requestPlan(s.shop.id, batchId, { kerfMm: 3.2, trimMm: 10, stages: 2, objective: "sheets", timeLimitMs: 300, offcutIds: [], seed: 5 });
+  let plan: typeof t.plans.$inferSelect | undefined;
+  for (let i = 0; i < 300; i++) {
+    [plan] = await db.select().from(t.plans).where(eq(t.plans.id, planId));
+    if (plan.status === "done") break;
+    if (plan.status === "failed") throw new Error(plan.error ?? "plan failed");
+    await new Promise((r) => setTimeout(r, 100));
+  }
+  await releasePlan(s.shop.id, batchId, planId);
+  const setups = (plan!.result as { plan: { setups: { count: number }[] } }).plan.setups;
+  for (const [i, setup] of setups.entries()) await tickSetup(s.shop.id, s.shop.users.sawyer.id, batchId, i, setup.count, setups as never);
+  const offcuts = await expectedOffcuts(batchId);
+  await closeBatchAsCut(s.shop.id, batchId, offcuts.map((o, i) => ({ offcutId: o.id, rack: i === 0, lengthUm: o.lengthUm, widthUm: o.widthUm, location: "Rack A" })), setups.length);
+  return batchId;
+}

@@ -1,0 +1,31 @@
+import { useEffect, useState } from "react";
+import { Bar, CartesianGrid, ComposedChart, Legend, Line, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
+import { formatMoney } from "~/lib/money";
+
+type Point = { month: string; yield: number; scrapCostMinor: number; batches: number };
+
+/** Yield and scrap cost per month. Drawn in the browser only: a chart needs its box's width. */
+export function LedgerChart({ trend, currency }: { trend: Point[]; currency: string }) {
+  const [mounted, setMounted] = useState(false);
+  useEffect(() => setMounted(true), []);
+  const data = trend.map((p) => ({ month: p.month, yieldPercent: Math.round(p.yield * 1000) / 10, scrapCost: p.scrapCostMinor / 100 }));
+  if (trend.length === 0) return <p className="text-muted">No batches cut in the last twelve months.</p>;
+  return (
+    <div className="h-72 w-full" role="img" aria-label={`Yield and scrap cost per month: ${data.map((d) => `${d.month} ${d.yieldPercent} %`).join(", ")}`}>
+      {mounted && (
+        <ResponsiveContainer width="100%" height="100%">
+          <ComposedChart data={data} margin={{ top: 8, right: 8, bottom: 8, left: 8 }}>
+            <CartesianGrid stroke="#ddd5c6" strokeDasharray="3 3" />
+            <XAxis dataKey="month" stroke="#5d6470" fontSize={12} />
+            <YAxis yAxisId="yield" domain={[0, 100]} unit=" %" stroke="#2f6b4f" fontSize={12} />
+            <YAxis yAxisId="cost" orientation="right" stroke="#b8561d" fontSize={12} />
+            <Tooltip formatter={(value, name) => (name === "Scrap cost" ? formatMoney(Math.round(Number(value) * 100), currency) : `${value} %`)} />
+            <Legend />
+            <Bar yAxisId="cost" dataKey="scrapCost" name="Scrap cost" fill="#f6e3d4" stroke="#b8561d" />
+            <Line yAxisId="yield" dataKey="yieldPercent" name="Yield" stroke="#2f6b4f" strokeWidth={2} dot />
+          </ComposedChart>
+        </ResponsiveContainer>
+      )}
+    </div>
+  );
+}

@@ -1,0 +1,93 @@
+import { and, asc, eq, gte, lt, sql } from "drizzle-orm";
+import { batchCosts, batches, materials } from "../../db/schema";
+import { getDb } from "~/db.server";
+
+export type LedgerRow = {
+  batchId: string;
+  batchNumber: number;
+  materialId: string;
+  materialName: string;
+  cutAt: Date;
+  stockAreaMm2: number;
+  offcutDrawnAreaMm2: number;
+  partsAreaMm2: number;
+  kerfLossMm2: number;
+  rackedAreaMm2: number;
+  scrapAreaMm2: number;
+  spoiledAreaMm2: number;
+  spoiledCount: number;
+  costDrawnMinor: number;
+  valueReturnedMinor: number;
+  scrapCostMinor: number;
+  spoiledCostMinor: number;
+};
+
+const columns = {
+  batchId: batchCosts.batchId,
+  batchNumber: batches.number,
+  materialId: batchCosts.materialId,
+  materialName: materials.name,
+  cutAt: batchCosts.cutAt,
+  stockAreaMm2: batchCosts.stockAreaMm2,
+  offcutDrawnAreaMm2: batchCosts.offcutDrawnAreaMm2,
+  partsAreaMm2: batchCosts.partsAreaMm2,
+  kerfLossMm2: batchCosts.kerfLossMm2,
+  rackedAreaMm2: batchCosts.rackedAreaMm2,
+  scrapAreaMm2: batchCosts.scrapAreaMm2,
+  spoiledAreaMm2: batchCosts.spoiledAreaMm2,
+  spoiledCount: batchCosts.spoiledCount,
+  costDrawnMinor: batchCosts.costDrawnMinor,
+  valueReturnedMinor: batchCosts.valueReturnedMinor,
+  scrapCostMinor: batchCosts.scrapCostMinor,
+  spoiledCostMinor: batchCosts.spoiledCostMinor,
+};
+
+/** The batches cut in [from, to) (UTC dates), oldest first. */
+export async function ledgerBatches(shopId: string, from: string, to: string): Promise<LedgerRow[]> {
+  return getDb()
+    .select(columns)
+    .from(batchCosts)
+    .innerJoin(batches, eq(batches.id, batchCosts.batchId))
+    .innerJoin(materials, eq(materials.id, batchCosts.materialId))
+    .where(and(eq(batchCosts.shopId, shopId), gte(batchCosts.cutAt, new Date(`${from}T00:00:00Z`)), lt(batchCosts.cutAt, new Date(`${to}T00:00:00Z`))))
+    .orderBy(asc(batchCosts.cutAt));
+}
+
+export async function batchCostDetail(shopId: string, batchId: string) {
+  const [row] = await getDb()
+    .select({ ...columns, panels: batchCosts.panels, allocations: batchCosts.allocations })
+    .from(batchCosts)
+    .innerJoin(batches, eq(batches.id, batchCosts.batchId))
+    .innerJoin(materials, eq(materials.id, batchCosts.materialId))
+    .where(and(eq(batchCosts.batchId, batchId), eq(batchCosts.shopId, shopId)));
+  return row ?? null;
+}
+
+/** Yield and scrap cost per month, for the chart: sums in PostgreSQL, exact integers. */
+export async function monthlyTrend(shopId: string, months = 12) {
+  const rows = await getDb()
+    .select({
+      month: sql<string>`to_char(date_trunc('month', ${batchCosts.cutAt} at time zone 'UTC'), 'YYYY-MM')`,
+      stockAreaMm2: sql<string>`sum(${batchCosts.stockAreaMm2})`,
+      partsAreaMm2: sql<string>`sum(${batchCosts.partsAreaMm2})`,
+      scrapCostMinor: sql<string>`sum(${batchCosts.scrapCostMinor})`,
+      batches: sql<number>`count(*)::int`,
+    })
+    .from(batchCosts)
+    .where(and(eq(batchCosts.shopId, shopId), gte(batchCosts.cutAt, sql`now() - make_interval(months => ${months})`)))
+    .groupBy(sql`1`)
+    .orderBy(sql`1`);
+  return rows.map((r) => ({ month: r.month, batches: r.batches, yield: Number(r.stockAreaMm2) > 0 ? Number(r.partsAreaMm2) / Number(r.stockAreaMm2) : 0, scrapCostMinor: Number(r.scrapCostMinor) }));
+}
+
+/** An order's material cost: its shares of the batches that cut its parts. */
+export async function orderMaterialCost(shopId: string, orderId: string): Promise<{ costMinor: number; batches: number } | null> {
+  const [row] = await getDb()
+    .select({
+      cost: sql<string | null>`sum((a->>'costMinor')::bigint)`,
+      batches: sql<number>`count(*)::int`,
+    })
+    .from(sql`${batchCosts}, jsonb_array_elements(${batchCosts.allocations}) a`)
+    .where(sql`${batchCosts.shopId} = ${shopId} and a->>'orderId' = ${orderId}`);
+  return row && row.batches > 0 ? { costMinor: Number(row.cost ?? 0), batches: row.batches } : null;
+}

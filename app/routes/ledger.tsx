@@ -1,0 +1,145 @@
+import { Form, Link, useSearchParams } from "react-router";
+import useSWR from "swr";
+import type { Route } from "./+types/ledger";
+import { requirePermission } from "~/auth.server";
+import { LedgerChart } from "~/components/ledger-chart";
+import { PageHeader } from "~/components/page-header";
+import { formatDate } from "~/lib/dates";
+import { formatArea } from "~/lib/ledger";
+import { yieldOf, type Figures } from "~/lib/ledger-report";
+import { formatMoney } from "~/lib/money";
+import { ledgerReport } from "~/models/ledger-report.server";
+import { getShop } from "~/models/shops.server";
+
+export async function loader(args: Route.LoaderArgs) {
+  const user = requirePermission(args, "ledger:read");
+  const [report, shop] = await Promise.all([ledgerReport(user.shopId, new URL(args.request.url).searchParams), getShop(user.shopId)]);
+  return { report, currency: shop.currency, unit: shop.displayUnit };
+}
+
+type Report = Awaited<ReturnType<typeof loader>>["report"];
+const fetchReport = async (url: string): Promise<Report> => {
+  const res = await fetch(url, { headers: { Accept: "application/json" } });
+  if (!res.ok) throw new Error(`The ledger could not be loaded (${res.status}).`);
+  return res.json();
+};
+
+export default function Ledger({ loaderData }: Route.ComponentProps) {
+  const [params] = useSearchParams();
+  const { currency, unit } = loaderData;
+  const { data } = useSWR(`/api/ledger?${params}`, fetchReport, { fallbackData: loaderData.report, revalidateOnMount: false });
+  const report = data ?? loaderData.report;
+  const { summary, batches, period, trend } = report;
+  const money = (minor: number) => formatMoney(minor, currency);
+  const area = (mm2: number) => formatArea(mm2, unit);
+  const cells = (f: Figures) => [
+    f.batches,
+    area(f.stockAreaMm2),
+    area(f.partsAreaMm2),
+    `${(yieldOf(f) * 100).toFixed(1)} %`,
+    area(f.rackedAreaMm2),
+    area(f.scrapAreaMm2 + f.kerfLossMm2),
+    money(f.costDrawnMinor),
+    money(f.valueReturnedMinor),
+    money(f.costDrawnMinor - f.valueReturnedMinor),
+    money(f.scrapCostMinor),
+    f.spoiledCount ? `${f.spoiledCount} · ${money(f.spoiledCostMinor)}` : "—",
+  ];
+  const heads = ["Batches", "Stock drawn", "Parts", "Yield", "Offcuts racked", "Scrap and kerf", "Stock cost", "Returned to rack", "Net material", "Scrap cost", "Spoiled (recut)"];
+  const month = /^\d{4}-\d{2}$/.test(period.label) ? period.label : "";
+  return (
+    <div className="space-y-8">
+      <PageHeader eyebrow="Bookkeeper" title="Ledger">
+        What the batches cut in a period drew from stock, what became parts, offcuts and scrap, and what it cost.
+      </PageHeader>
+      <Form method="get" className="flex flex-wrap items-end gap-3">
+        <label className="space-y-1 text-sm font-medium">
+          <span className="block">Month</span>
+          <input type="month" name="month" defaultValue={month} className="block min-h-11 rounded-md border border-line bg-white px-3" />
+        </label>
+        <button type="submit" className="min-h-11 rounded-md border border-line bg-white px-4 font-medium hover:border-edge">
+          Show
+        </button>
+        <span className="text-sm text-muted">or a range:</span>
+        <input type="date" name="from" aria-label="From" defaultValue={params.get("from") ?? ""} className="min-h-11 rounded-md border border-line bg-white px-3" />
+        <input type="date" name="to" aria-label="To" defaultValue={params.get("to") ?? ""} className="min-h-11 rounded-md border border-line bg-white px-3" />
+        <a href={`/ledger.csv?${params}`} download className="ml-auto inline-flex min-h-11 items-center rounded-md bg-edge px-4 font-semibold text-white hover:bg-edge-dark">
+          Download CSV
+        </a>
+      </Form>
+
+      <section className="space-y-3">
+        <h2 className="text-xl font-semibold">{period.label}: per material</h2>
+        <div className="overflow-x-auto rounded-lg border border-line bg-card">
+          <table className="w-full min-w-[64rem] text-left text-sm" data-testid="ledger-summary">
+            <thead className="border-b border-line text-xs uppercase tracking-wider text-muted">
+              <tr>
+                <th className="px-3 py-3">Material</th>
+                {heads.map((h) => (
+                  <th key={h} className="px-3 py-3 text-right">
+                    {h}
+                  </th>
+                ))}
+              </tr>
+            </thead>
+            <tbody className="divide-y divide-line">
+              {summary.materials.map((m) => (
+                <tr key={m.materialId}>
+                  <th className="px-3 py-2 font-medium">{m.materialName}</th>
+                  {cells(m).map((c, i) => (
+                    <td key={i} className="px-3 py-2 text-right tabular-nums">
+                      {c}
+                    </td>
+                  ))}
+                </tr>
+              ))}
+              {summary.materials.length === 0 && (
+                <tr>
+                  <td colSpan={12} className="px-3 py-6 text-center text-muted">
+                    No batch was cut in this period.
+                  </td>
+                </tr>
+              )}
+            </tbody>
+            <tfoot className="border-t-2 border-ink/30 font-semibold">
+              <tr>
+                <th className="px-3 py-2">Total</th>
+                {cells(summary.total).map((c, i) => (
+                  <td key={i} className="px-3 py-2 text-right tabular-nums">
+                    {c}
+                  </td>
+                ))}
+              </tr>
+            </tfoot>
+          </table>
+        </div>
+      </section>
+
+      <section className="space-y-3">
+        <h2 className="text-xl font-semibold">Batches cut</h2>
+        <ul className="divide-y divide-line rounded-lg border border-line bg-card">
+          {batches.map((b) => (
+            <li key={b.batchId} className="flex flex-wrap items-center justify-between gap-3 px-4 py-3">
+              <Link to={`/ledger/batches/${b.batchId}`} className="font-semibold text-edge hover:underline">
+                {b.batchCode}
+              </Link>
+              <span className="grow">{b.materialName}</span>
+              <span className="text-sm text-muted">cut {formatDate(b.cutAt.slice(0, 10))}</span>
+              <span className="tabular-nums">yield {(yieldOf(b) * 100).toFixed(1)} %</span>
+              <span className="tabular-nums">scrap {money(b.scrapCostMinor)}</span>
+            </li>
+          ))}
+          {batches.length === 0 && <li className="px-4 py-3 text-muted">None.</li>}
+        </ul>
+      </section>
+
+      <section className="space-y-3">
+        <h2 className="text-xl font-semibold">Yield and scrap cost, last twelve months</h2>
+        <LedgerChart trend={trend} currency={currency} />
+      </section>
+      <p className="text-sm text-muted">
+        Full sheets count at their price, racked offcuts at the material's cheapest price per area; offcuts returned to the rack are credited at the same rate. Scrap cost is the net material cost's share of scrap and kerf by area. An order's material cost is its share by the area of its parts.
+      </p>
+    </div>
+  );
+}

@@ -1,0 +1,91 @@
+import { parse } from "csv-parse/sync";
+import { eq } from "drizzle-orm";
+import request from "supertest";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import * as t from "../../db/schema";
+import { appServer, visible } from "../support/app";
+import { batchScenario, cutBatch } from "../support/batch-factories";
+import { signIn } from "../support/factories";
+import { getDb } from "~/db.server";
+import { startPlanRunner, stopPlanRunner } from "~/jobs/plan-runner.server";
+
+const server = await appServer();
+const db = getDb();
+const thisMonth = new Date().toISOString().slice(0, 7);
+let s: Awaited<ReturnType<typeof batchScenario>>;
+let batchIds: string[];
+
+beforeAll(async () => {
+  await startPlanRunner();
+  s = await batchScenario();
+  batchIds = [await cutBatch(s, "2027-01-10"), await cutBatch(s, "2027-01-12")];
+});
+afterAll(() => stopPlanRunner());
+
+describe("the ledger", () => {
+  it("a month's totals are the sums of its batches, and each batch's order shares add up to its net cost to the cent", async () => {
+    const bookkeeper = await signIn(server, s.shop.users.bookkeeper);
+    const res = await request(server).get(`/api/ledger?month=${thisMonth}`).set("Cookie", bookkeeper);
+    expect(res.status).toBe(200);
+    const rows = await db.select().from(t.batchCosts).where(eq(t.batchCosts.shopId, s.shop.id));
+    expect(rows).toHaveLength(2);
+    const sum = (k: keyof (typeof rows)[number]) => rows.reduce((a, r) => a + Number(r[k]), 0);
+    expect(res.body.summary.total).toMatchObject({
+      batches: 2,
+      stockAreaMm2: sum("stockAreaMm2"),
+      partsAreaMm2: sum("partsAreaMm2"),
+      scrapAreaMm2: sum("scrapAreaMm2"),
+      costDrawnMinor: sum("costDrawnMinor"),
+      valueReturnedMinor: sum("valueReturnedMinor"),
+      scrapCostMinor: sum("scrapCostMinor"),
+    });
+    for (const r of rows) {
+      expect(r.allocations.reduce((a, x) => a + x.costMinor, 0)).toBe(r.costDrawnMinor - r.valueReturnedMinor);
+      expect(r.stockAreaMm2).toBe(r.partsAreaMm2 + r.rackedAreaMm2 + r.kerfLossMm2 + r.scrapAreaMm2);
+      expect(r.costDrawnMinor).toBe(5290); // one full sheet each
+    }
+    expect(res.body.batches.map((b: { batchId: string }) => b.batchId).sort()).toEqual([...batchIds].sort());
+  });
+
+  it("the CSV carries the same rows, with currency and unit in its header, and parses back", async () => {
+    const bookkeeper = await signIn(server, s.shop.users.bookkeeper);
+    const csv = await request(server).get(`/ledger.csv?month=${thisMonth}`).set("Cookie", bookkeeper);
+    expect(csv.status).toBe(200);
+    expect(csv.headers["content-type"]).toContain("text/csv");
+    const [header, ...rest] = csv.text.split("\r\n");
+    expect(header).toBe(`# Stopwise ledger ${thisMonth}; money in EUR; areas in m2`);
+    const records = parse(rest.join("\r\n"), { columns: true, skip_empty_lines: true }) as Record<string, string>[];
+    const api = (await request(server).get(`/api/ledger?month=${thisMonth}`).set("Cookie", bookkeeper)).body;
+    expect(records).toHaveLength(api.batches.length);
+    api.batches.forEach((b: { batchCode: string; materialName: string; costDrawnMinor: number; valueReturnedMinor: number; scrapCostMinor: number; stockAreaMm2: number }, i: number) => {
+      expect(records[i].batch).toBe(b.batchCode);
+      expect(records[i].material).toBe(b.materialName);
+      expect(records[i].cost_drawn_EUR).toBe((b.costDrawnMinor / 100).toFixed(2));
+      expect(records[i].net_cost_EUR).toBe(((b.costDrawnMinor - b.valueReturnedMinor) / 100).toFixed(2));
+      expect(records[i].scrap_cost_EUR).toBe((b.scrapCostMinor / 100).toFixed(2));
+      expect(records[i].stock_m2).toBe((b.stockAreaMm2 / 1e6).toFixed(2));
+    });
+  });
+
+  it("drills down from the month to a batch and its orders; an order shows its material cost and margin", async () => {
+    const owner = await signIn(server, s.shop.users.owner);
+    const month = await request(server).get(`/ledger?month=${thisMonth}`).set("Cookie", owner);
+    expect(visible(month.text)).toContain("Birch plywood 6 mm");
+    const detail = await request(server).get(`/ledger/batches/${batchIds[0]}`).set("Cookie", owner);
+    expect(detail.status).toBe(200);
+    expect(visible(detail.text)).toContain(`#${s.wedding.number}`);
+    const order = await request(server).get(`/orders/${s.wedding.id}`).set("Cookie", owner);
+    expect(visible(order.text)).toMatch(/Material €[\d.]+ · margin €[\d.]+/);
+  });
+
+  it("the bookkeeper reads everything here and changes nothing on the floor; a sawyer has no ledger", async () => {
+    const bookkeeper = await signIn(server, s.shop.users.bookkeeper);
+    expect((await request(server).get(`/ledger?month=${thisMonth}`).set("Cookie", bookkeeper)).status).toBe(200);
+    expect((await request(server).post(`/api/batches/${batchIds[0]}/floor`).set("Cookie", bookkeeper).send({ setupIndex: 0 })).status).toBe(403);
+    expect((await request(server).post(`/batches/${batchIds[0]}`).set("Cookie", bookkeeper).type("form").send({ intent: "run-plan" })).status).toBe(403);
+    const sawyer = await signIn(server, s.shop.users.sawyer);
+    expect((await request(server).get("/ledger").set("Cookie", sawyer)).status).toBe(403);
+    expect((await request(server).get("/api/ledger").set("Cookie", sawyer)).status).toBe(403);
+    expect((await request(server).get("/ledger.csv").set("Cookie", sawyer)).status).toBe(403);
+  });
+});

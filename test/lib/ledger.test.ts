@@ -1,0 +1,72 @@
+import { describe, expect, it } from "vitest";
+import fc from "fast-check";
+import { batchLedger, splitByWeight } from "~/lib/ledger";
+
+describe("a hand-worked batch", () => {
+  // Two full sheets of 2440 × 1220 mm at £52.90 and one racked offcut of 1000 × 500 mm drawn.
+  // Cheapest price per area of the material: 5290 p / (2440 × 1220 mm²) = 5290 / 2,976,800 p per mm².
+  const rate = 5290 / 2_976_800;
+  const ledger = batchLedger({
+    sheets: [
+      { kind: "panel", lengthUm: 2_440_000, widthUm: 1_220_000, costMinor: 5290, partsAreaMm2: 2_500_000 },
+      { kind: "panel", lengthUm: 2_440_000, widthUm: 1_220_000, costMinor: 5290, partsAreaMm2: 1_800_000 },
+      // the offcut drawn: 500,000 mm² × rate = 888.5 p, rounded when the plan was made
+      { kind: "offcut", lengthUm: 1_000_000, widthUm: 500_000, costMinor: 889, partsAreaMm2: 400_000 },
+    ],
+    kerfLossMm2: 60_000,
+    racked: [{ lengthUm: 800_000, widthUm: 400_000 }], // 320,000 mm² back on the rack
+    ratePerMm2: rate,
+    spoiled: [{ lengthUm: 210_000, widthUm: 150_000 }], // one table number: 31,500 mm²
+    orders: [
+      { orderId: "a", orderNumber: 1001, partsAreaMm2: 3_000_000 },
+      { orderId: "b", orderNumber: 1002, partsAreaMm2: 1_700_000 },
+    ],
+  });
+
+  it("adds the areas up step by step", () => {
+    // stock: 2 × 2,976,800 + 500,000 = 6,453,600 mm²
+    expect(ledger.stockAreaMm2).toBe(6_453_600);
+    expect(ledger.offcutDrawnAreaMm2).toBe(500_000);
+    // parts: 2,500,000 + 1,800,000 + 400,000 = 4,700,000 mm²
+    expect(ledger.partsAreaMm2).toBe(4_700_000);
+    expect(ledger.rackedAreaMm2).toBe(320_000);
+    // waste: 6,453,600 − 4,700,000 − 320,000 = 1,433,600 mm², of which kerf 60,000 → scrap 1,373,600
+    expect(ledger.scrapAreaMm2).toBe(1_373_600);
+    // yield: 4,700,000 / 6,453,600 = 0.72828…
+    expect(ledger.yield).toBeCloseTo(0.72828, 5);
+  });
+
+  it("costs it exactly in pence", () => {
+    // drawn: 5290 + 5290 + 889 = 11,469 p
+    expect(ledger.costDrawnMinor).toBe(11_469);
+    // returned: 320,000 × 5290 / 2,976,800 = 568.66 → 569 p
+    expect(ledger.valueReturnedMinor).toBe(569);
+    // net: 11,469 − 569 = 10,900 p; scrap share 10,900 × 1,433,600 / 6,133,600 = 2547.67 → 2548 p
+    expect(ledger.netCostMinor).toBe(10_900);
+    expect(ledger.scrapCostMinor).toBe(2548);
+    // parts cost 10,900 − 2548 = 8352; spoiled share 8352 × 31,500 / 4,700,000 = 55.98 → 56 p
+    expect(ledger.spoiledCostMinor).toBe(56);
+  });
+
+  it("allocates the net cost to orders by parts area, summing to the penny", () => {
+    // 10,900 × 3,000,000 / 4,700,000 = 6957.45; × 1,700,000 / 4,700,000 = 3942.55 → 6957 + 3943
+    expect(ledger.allocations.map((a) => a.costMinor)).toEqual([6957, 3943]);
+    expect(ledger.allocations.reduce((a, b) => a + b.costMinor, 0)).toBe(ledger.netCostMinor);
+  });
+});
+
+describe("splitByWeight", () => {
+  it("always sums to the whole, never goes negative, and follows the weights", () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 0, max: 10_000_000 }), fc.array(fc.integer({ min: 0, max: 5_000_000 }), { minLength: 1, maxLength: 40 }), (total, weights) => {
+        const parts = splitByWeight(total, weights);
+        expect(parts.reduce((a, b) => a + b, 0)).toBe(total);
+        const sum = weights.reduce((a, b) => a + b, 0);
+        parts.forEach((p, i) => {
+          expect(p).toBeGreaterThanOrEqual(0);
+          if (sum > 0) expect(Math.abs(p - (total * weights[i]) / sum)).toBeLessThan(1);
+        });
+      }),
+    );
+  });
+});
