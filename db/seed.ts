@@ -1,8 +1,9 @@
 // The demo scenario of DESIGN.md: "Tallowmere Sign & Keepsake", a three-person shop.
 // Every name and figure here is invented for the demo.
-import { count } from "drizzle-orm";
+import { count, eq } from "drizzle-orm";
 import { generateIdFromEntropySize } from "lucia";
 import type { Database } from "../app/db.server";
+import { batchLedger } from "../app/lib/ledger";
 import { hashPassword } from "../app/password.server";
 import * as t from "./schema";
 
@@ -144,6 +145,82 @@ export async function seedDemo(db: Database, today = new Date()): Promise<void> 
   });
 }
 
+/**
+ * Last month in the demo shop's books: two past orders cut in two batches, closed with their costs, so
+ * the bookkeeper's ledger has a month to show. Figures are invented; the arithmetic is app/lib/ledger.ts.
+ */
+export async function seedDemoHistory(db: Database, today = new Date()): Promise<void> {
+  const [shop] = await db.select().from(t.shops).where(eq(t.shops.name, "Tallowmere Sign & Keepsake"));
+  const mats = await db.select().from(t.materials).where(eq(t.materials.shopId, shop.id));
+  const birch6 = mats.find((m) => m.name === "Birch plywood 6 mm")!;
+  const mdf6 = mats.find((m) => m.name === "MDF 6 mm")!;
+  const lastMonth = (day: number) => new Date(Date.UTC(today.getUTCFullYear(), today.getUTCMonth() - 1, day, 15));
+  const iso = (d: Date) => d.toISOString().slice(0, 10);
+  await db.transaction(async (tx) => {
+    const [hartwell, quince] = await tx
+      .insert(t.customers)
+      .values([
+        { shopId: shop.id, name: "Hartwell christening", email: "hartwell@example.com" },
+        { shopId: shop.id, name: "Quince & Co. shop", email: "signs@quince.example" },
+      ])
+      .returning();
+    const products = await tx.select().from(t.products).where(eq(t.products.shopId, shop.id));
+    const plaque = products.find((p) => p.name.startsWith("Nursery name plaque"))!;
+    const menu = products.find((p) => p.name.startsWith("Café menu board"))!;
+    const [christening, shopSigns] = await tx
+      .insert(t.orders)
+      .values([
+        { shopId: shop.id, number: 990, customerId: hartwell.id, eventDate: iso(lastMonth(20)), dueDate: iso(lastMonth(12)), status: "delivered", confirmedAt: lastMonth(2), confirmationSentAt: lastMonth(2) },
+        { shopId: shop.id, number: 991, customerId: quince.id, eventDate: iso(lastMonth(25)), dueDate: iso(lastMonth(16)), status: "delivered", confirmedAt: lastMonth(3), confirmationSentAt: lastMonth(3) },
+      ])
+      .returning();
+    const [plaqueLine, menuLine] = await tx
+      .insert(t.orderLines)
+      .values([
+        { orderId: christening.id, productId: plaque.id, quantity: 12, unitPriceMinor: plaque.priceMinor, personalisation: Array.from({ length: 12 }, (_, i) => `Guest plaque ${i + 1}`) },
+        { orderId: shopSigns.id, productId: menu.id, quantity: 6, unitPriceMinor: menu.priceMinor, personalisation: [] },
+      ])
+      .returning();
+    const sheet = { lengthUm: mm(2440), widthUm: mm(1220) };
+    const books = [
+      { number: 1, material: birch6, line: plaqueLine, order: christening, cutAt: lastMonth(10), cost: 5290, parts: 12 * 400 * 150, kerf: 18_400, racked: [{ lengthUm: mm(1220), widthUm: mm(640) }] },
+      { number: 2, material: mdf6, line: menuLine, order: shopSigns, cutAt: lastMonth(14), cost: 2190, parts: 6 * (500 * 350 + 500 * 40), kerf: 11_900, racked: [] as { lengthUm: number; widthUm: number }[] },
+    ];
+    for (const b of books) {
+      const [batch] = await tx.insert(t.batches).values({ shopId: shop.id, number: b.number, materialId: b.material.id, status: "cut", dueBy: iso(b.cutAt), releasedAt: b.cutAt, cutAt: b.cutAt }).returning();
+      await tx.insert(t.batchLines).values({ batchId: batch.id, orderLineId: b.line.id, materialId: b.material.id });
+      const ledger = batchLedger({
+        sheets: [{ kind: "panel", ...sheet, costMinor: b.cost, partsAreaMm2: b.parts }],
+        kerfLossMm2: b.kerf,
+        racked: b.racked,
+        ratePerMm2: b.cost / 2_976_800,
+        spoiled: [],
+        orders: [{ orderId: b.order.id, orderNumber: b.order.number, partsAreaMm2: b.parts }],
+      });
+      await tx.insert(t.batchCosts).values({
+        batchId: batch.id,
+        shopId: shop.id,
+        materialId: b.material.id,
+        cutAt: b.cutAt,
+        stockAreaMm2: ledger.stockAreaMm2,
+        offcutDrawnAreaMm2: 0,
+        partsAreaMm2: ledger.partsAreaMm2,
+        kerfLossMm2: ledger.kerfLossMm2,
+        rackedAreaMm2: ledger.rackedAreaMm2,
+        scrapAreaMm2: ledger.scrapAreaMm2,
+        spoiledAreaMm2: 0,
+        spoiledCount: 0,
+        costDrawnMinor: ledger.costDrawnMinor,
+        valueReturnedMinor: ledger.valueReturnedMinor,
+        scrapCostMinor: ledger.scrapCostMinor,
+        spoiledCostMinor: 0,
+        panels: [{ kind: "panel", ...sheet, costMinor: b.cost, partsAreaMm2: b.parts }],
+        allocations: ledger.allocations,
+      });
+    }
+  });
+}
+
 /** A second, smaller shop, so that each shop seeing only its own data can be tried. */
 export const SECOND_SHOP_OWNER = { email: "owner@harrowgate.example", name: "Perpetua Harrowgate", role: "owner" } as const;
 
@@ -169,6 +246,7 @@ if (import.meta.url === `file://${process.argv[1]}`) {
   try {
     if (await isEmpty(db)) {
       await seedDemo(db);
+      await seedDemoHistory(db);
       await seedSecondShop(db);
       console.log("Loaded the demo shops (Tallowmere Sign & Keepsake; Harrowgate Plaque Co.).");
     }

@@ -1,0 +1,61 @@
+import { eq } from "drizzle-orm";
+import { readFileSync } from "node:fs";
+import type { Browser } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import * as t from "../../db/schema";
+import { DEMO_PASSWORD, seedDemo, seedDemoHistory } from "../../db/seed";
+import { launchBrowser, VIEWPORTS } from "../support/browser";
+import { startApp } from "../support/server";
+import { getDb } from "~/db.server";
+import { previousMonth } from "~/lib/ledger-report";
+
+describe("the bookkeeper in chromium", () => {
+  let app: Awaited<ReturnType<typeof startApp>>;
+  let browser: Browser;
+  beforeAll(async () => {
+    const db = getDb();
+    const [demo] = await db.select().from(t.shops).where(eq(t.shops.name, "Tallowmere Sign & Keepsake"));
+    if (!demo) {
+      await seedDemo(db);
+      await seedDemoHistory(db);
+    }
+    app = await startApp();
+    browser = await launchBrowser();
+  });
+  afterAll(async () => {
+    await browser?.close();
+    await app?.stop();
+  });
+
+  it("opens last month, sees the demo batches' waste and downloads the CSV", async () => {
+    const context = await browser.newContext({ viewport: VIEWPORTS.desktop, acceptDownloads: true });
+    const page = await context.newPage();
+    const errors: string[] = [];
+    page.on("pageerror", (err) => errors.push(err.message));
+    await page.goto(`${app.url}/sign-in?redirectTo=/ledger`);
+    await page.getByLabel("E-mail").fill("books@tallowmere.example");
+    await page.getByLabel("Password").fill(DEMO_PASSWORD);
+    await page.getByRole("button", { name: "Sign in" }).click();
+    await page.getByRole("heading", { level: 1, name: "Ledger" }).waitFor();
+
+    const month = previousMonth(new Date().toISOString().slice(0, 10));
+    await page.getByRole("heading", { name: `${month}: per material` }).waitFor(); // last month is the default
+    const summary = page.getByTestId("ledger-summary");
+    await summary.getByRole("rowheader", { name: "Birch plywood 6 mm" }).waitFor();
+    await summary.getByRole("rowheader", { name: "MDF 6 mm" }).waitFor();
+    expect(await summary.locator("tfoot td").first().textContent()).toBe("2");
+    await page.locator(".recharts-wrapper").waitFor(); // the chart drew
+
+    const [download] = await Promise.all([page.waitForEvent("download"), page.getByRole("link", { name: "Download CSV" }).click()]);
+    const csv = readFileSync((await download.path())!, "utf8");
+    expect(csv.split("\r\n")[0]).toBe(`# Stopwise ledger ${month}; money in GBP; areas in m2`);
+    expect(csv).toContain("Birch plywood 6 mm");
+    expect(csv).toContain("MDF 6 mm");
+
+    await page.getByRole("link", { name: "B-0001" }).click();
+    await page.getByRole("heading", { name: "Material cost per order" }).waitFor();
+    await page.getByRole("link", { name: "#990" }).waitFor();
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+});
