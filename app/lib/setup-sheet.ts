@@ -39,7 +39,7 @@ export type SetupRow = {
   count: number;
   /** which panels and cut numbers: "panel 1: cuts 2, 3 · panel 2: cut 4" */
   where: string;
-  /** crosscuts: the parts freed at this stop and their orders */
+  /** crosscuts: the parts cut to length at this stop; rips and breakdowns: the parts they cut loose; with their orders */
   parts: { label: string; count: number; orders: string }[];
   /** what to do instead when a machine limit is passed; never empty when a limit is passed */
   flags: string[];
@@ -108,6 +108,8 @@ export const CAUTIONS = [
   "The saw maker's manual and your local rules come first; where they differ from this sheet, follow them.",
 ];
 
+export const PARTS_LEAD: Record<Setup["kind"], string> = { crosscut: "cuts to length", rip: "cuts loose", breakdown: "cuts loose" };
+
 function cutsMatching(sheet: SheetPlan, setup: Setup) {
   const target = um(setup.setting);
   return sheet.cuts.map((cut, i) => ({ cut, number: i + 1 })).filter(({ cut }) => cut.kind === setup.kind && um(cut.setting) === target);
@@ -117,18 +119,32 @@ function near(a: number, b: number) {
   return Math.abs(um(a) - um(b)) <= EPS_UM;
 }
 
-/** Parts a crosscut frees at its setting: on either side of the line, as long as the setting, within the cut's span. */
-function partsFreedBy(cut: Cut, kerfMm: number, placements: Placement[]): number[] {
+/**
+ * Which cut frees each part of a panel: the last cut beside the part whose line spans exactly the
+ * part's side (the piece is then the part alone, plus waste on the far side). Every part is freed by
+ * one cut, so each set-up can say which parts — and whose orders — come off at its setting.
+ */
+/** Parts a crosscut cuts to length: on its low side (the keeper, between stop and blade), as long as the setting, within the cut's span. */
+function partsSizedBy(cut: Cut, placements: Placement[]): number[] {
   const found: number[] = [];
   placements.forEach((p, i) => {
     const [lo, extent, across, acrossExtent] = cut.axis === "x" ? [p.x, p.length, p.y, p.width] : [p.y, p.width, p.x, p.length];
     if (across < cut.from - 0.001 || across + acrossExtent > cut.to + 0.001) return;
-    if (!near(extent, cut.setting)) return;
-    const lowSide = near(lo + extent, cut.at);
-    const highSide = near(lo, cut.at + kerfMm);
-    if (lowSide || highSide) found.push(i);
+    if (near(extent, cut.setting) && near(lo + extent, cut.at)) found.push(i);
   });
   return found;
+}
+
+export function freeingCuts(sheet: SheetPlan, kerfMm: number): Map<number, number> {
+  const freed = new Map<number, number>();
+  sheet.cuts.forEach((cut, c) => {
+    sheet.placements.forEach((p, i) => {
+      const [lo, extent, along, alongExtent] = cut.axis === "x" ? [p.x, p.length, p.y, p.width] : [p.y, p.width, p.x, p.length];
+      if (!near(along, cut.from) || !near(along + alongExtent, cut.to)) return;
+      if (near(lo + extent, cut.at) || near(lo, cut.at + kerfMm)) freed.set(i, c);
+    });
+  });
+  return freed;
 }
 
 function list(numbers: number[]) {
@@ -191,6 +207,7 @@ export function buildSetupSheet(input: SetupSheetInput): SetupSheet {
   const stopMax = sled?.stopMaxUm ?? shop.stopMaxUm;
   const widest = Math.min(sled?.widestUm ?? shop.sledWidthMaxUm, shop.sledWidthMaxUm);
   let longestCrosscutUm = 0;
+  const freeing = sheets.map((sheet) => freeingCuts(sheet, kerfMm));
 
   const setups: SetupRow[] = plan.plan.setups.map((setup, i) => {
     const settingUm = um(setup.setting);
@@ -202,12 +219,13 @@ export function buildSetupSheet(input: SetupSheetInput): SetupSheet {
       const matches = cutsMatching(sheet, setup);
       if (!matches.length) return;
       where.push(`panel ${s + 1}: ${list(matches.map((m) => m.number))}`);
-      const seen = new Set<number>();
-      for (const { cut } of matches) {
-        widestLineUm = Math.max(widestLineUm, um(cut.to - cut.from));
-        if (setup.kind === "crosscut") for (const p of partsFreedBy(cut, kerfMm, sheet.placements)) seen.add(p);
-      }
-      for (const p of seen) {
+      const mine = new Set(matches.map((m) => m.number - 1));
+      for (const { cut } of matches) widestLineUm = Math.max(widestLineUm, um(cut.to - cut.from));
+      // A stop lists the parts it cuts to length; a fence or mark the parts it cuts loose.
+      const parts = new Set<number>();
+      if (setup.kind === "crosscut") for (const { cut } of matches) for (const p of partsSizedBy(cut, sheet.placements)) parts.add(p);
+      else for (const [p, c] of freeing[s]) if (mine.has(c)) parts.add(p);
+      for (const p of parts) {
         const id = sheet.placements[p].partId;
         freed.set(id, (freed.get(id) ?? 0) + 1);
       }

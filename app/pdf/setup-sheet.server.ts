@@ -2,7 +2,7 @@
 // Panel drawings follow the plan view's convention: x along the panel's length, left to right; the
 // plan's y (up from the lower edge) drawn upwards.
 import PDFDocument from "pdfkit";
-import type { PanelView, SetupRow, SetupSheet } from "~/lib/setup-sheet";
+import { PARTS_LEAD, type PanelView, type SetupRow, type SetupSheet } from "~/lib/setup-sheet";
 import { collect, PAPER, registerFonts, type Paper } from "./fonts.server";
 
 const MARGIN = 36;
@@ -110,6 +110,7 @@ function setupBlock(s: Sheet, row: SetupRow) {
     ...row.flags.map((f) => ({ text: `!  ${f}`, size: 9.5, font: "Plex-Bold", color: BAD })),
     ...row.notes.map((n) => ({ text: n, size: 9, font: "Plex-SemiBold", color: INK })),
     { text: row.where, size: 9, font: "Plex", color: MUTED },
+    ...(row.parts.length ? [{ text: `${PARTS_LEAD[row.kind]}:`, size: 8, font: "Plex", color: MUTED }] : []),
     ...row.parts.map((p) => ({ text: `${p.count} × ${p.label}${p.orders ? ` — ${p.orders}` : ""}`, size: 9, font: "Plex", color: INK })),
   ].filter((l) => l.text);
   const heading = `${row.number}.  ${row.heading}   ${row.count} ${row.count === 1 ? "cut" : "cuts"}`;

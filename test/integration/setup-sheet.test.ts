@@ -95,6 +95,10 @@ describe("the set-up sheet of a released batch", () => {
     const expected = result.plan.setups.map((x, i) => ({ n: i + 1, kind: x.kind, setting: sheetLength(Math.round(x.setting * 1000), "mm"), count: x.count }));
     expect(expected.length).toBeGreaterThan(1);
     expect(listed).toEqual(expected);
+    // Each part is cut to length at one stop: 5 number cards at 210 mm, the sign face at 600 mm.
+    const stops = out.split(/^\s*\d+\.\s+/m).filter((block) => block.startsWith("Crosscut"));
+    const sized = stops.map((block) => [block.match(/stop (\S+ mm)/)![1], [...block.matchAll(/(\d+) × (Number card|Sign face) /g)].map((m) => `${m[1]} ${m[2]}`)]);
+    expect(sized).toEqual(expect.arrayContaining([["600 mm", ["1 Sign face"]], ["210 mm", ["5 Number card"]]]));
     expect(out).toContain(code);
     expect(out).toContain("Birch plywood 6 mm");
   });

@@ -55,6 +55,7 @@ describe("set-up sheet derivation", () => {
       [5, "Crosscut · stop 10 mm", 1],
     ]);
     expect(sheetOut.setups[3].where).toBe("panel 1: cut 2");
+    expect(sheetOut.setups[4].parts).toEqual([{ label: "Tab 10 × 120 mm", count: 1, orders: "#1002 Zoë Nguyễn (1)" }]);
     expect(sheetOut.setups[3].parts).toEqual([{ label: "Board 300 × 700 mm", count: 1, orders: "#1001 Zoë Nguyễn (1)" }]);
   });
 
