@@ -147,6 +147,20 @@ describe("the set-up sheet of a released batch", () => {
     expect((await get(`/batches/not-a-uuid/setup-sheet`, sawyer)).status).toBe(404);
   });
 
+  it("prints figures in an inch shop's unit, marking rounded ones with their millimetres; Letter by default", async () => {
+    await db.update(t.shops).set({ displayUnit: "in" }).where(eq(t.shops.id, s.shop.id));
+    try {
+      const file = pdfOf(await get(`/batches/${six}/setup-sheet`, sawyer), "inch");
+      const out = flat(text(file));
+      // 2440 mm = 96.063 in → 96-1/16; 1220 mm = 48.031 in → 48-1/32 (TRADE-FACTS §5, 1 in = 25.4 mm exactly)
+      expect(out).toContain("full sheet ≈ 96-1/16 in (2440 mm) × ≈ 48-1/32 in (1220 mm)");
+      expect(out).toContain("fence ≈ 5-29/32 in (150 mm)"); // 150 mm = 5.9055 in → 189/32
+      expect(execFileSync("pdfinfo", [file], { encoding: "utf8" })).toMatch(/Page size:\s+612 x 792 pts/);
+    } finally {
+      await db.update(t.shops).set({ displayUnit: "mm" }).where(eq(t.shops.id, s.shop.id));
+    }
+  });
+
   it("prints one label per part, with names in any script", async () => {
     // The scenario's parts: 5 number cards and 1 sign face sawn, plus the laser items' blanks.
     const res = await get(`/batches/${six}/labels?paper=letter`, sawyer);
