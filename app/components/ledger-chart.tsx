@@ -21,8 +21,8 @@ export function LedgerChart({ trend, currency }: { trend: Point[]; currency: str
             <YAxis yAxisId="cost" orientation="right" stroke="#b8561d" fontSize={12} />
             <Tooltip formatter={(value, name) => (name === "Scrap cost" ? formatMoney(Math.round(Number(value) * 100), currency) : `${value} %`)} />
             <Legend />
-            <Bar yAxisId="cost" dataKey="scrapCost" name="Scrap cost" fill="#f6e3d4" stroke="#b8561d" />
-            <Line yAxisId="yield" dataKey="yieldPercent" name="Yield" stroke="#2f6b4f" strokeWidth={2} dot />
+            <Bar yAxisId="cost" dataKey="scrapCost" name="Scrap cost" fill="#f6e3d4" stroke="#b8561d" maxBarSize={48} isAnimationActive={false} />
+            <Line yAxisId="yield" dataKey="yieldPercent" name="Yield" stroke="#2f6b4f" strokeWidth={2} dot isAnimationActive={false} />
           </ComposedChart>
         </ResponsiveContainer>
       )}

@@ -87,7 +87,7 @@ export default function Ledger({ loaderData }: Route.ComponentProps) {
                 <tr key={m.materialId}>
                   <th className="px-3 py-2 font-medium">{m.materialName}</th>
                   {cells(m).map((c, i) => (
-                    <td key={i} className="px-3 py-2 text-right tabular-nums">
+                    <td key={i} className="whitespace-nowrap px-3 py-2 text-right tabular-nums">
                       {c}
                     </td>
                   ))}
