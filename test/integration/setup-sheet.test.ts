@@ -181,7 +181,8 @@ describe("the sled on the sheet", () => {
     const sawId = await addSaw(s.shop.id, { name: "Cabinet saw", blade: "" });
     await recordKerf(s.shop.id, sawId, s.shop.users.sawyer.id, { kerfUm: 3200, note: "" });
     const sledId = (await addSled(s.shop.id, { name: "Big sled", sawId, stopMinUm: 20_000, stopMaxUm: 1_200_000, widestUm: 610_000 }))!;
-    await release(s.shop.id, six.id, { sawId, sledId });
+    const [offcut] = await db.insert(t.offcuts).values({ shopId: s.shop.id, materialId: s.birch6.id, lengthUm: 812_000, widthUm: 430_000, location: "Rack A, slot 2" }).returning();
+    await release(s.shop.id, six.id, { sawId, sledId, offcutIds: [offcut.id] });
     const sawyer = await signIn(server, s.shop.users.sawyer);
 
     const before = flat(text(pdfOf(await get(`/batches/${six.id}/setup-sheet`, sawyer), "sled-before")));
@@ -189,6 +190,7 @@ describe("the sled on the sheet", () => {
     expect(before).toContain("This sled has no squareness check on record");
     expect(before).toContain("Sled: Big sled · stop block 20 mm to 1200 mm");
     expect(before).toContain("Saw: Cabinet saw · kerf 3.20 mm assumed by the plan (Cabinet saw's latest test cut)");
+    expect(before).toMatch(/Racked offcut 812 × 430 mm from Rack A, slot 2 — panel \d/);
 
     await recordSledCheck(s.shop.id, sledId, s.shop.users.sawyer.id, { widthFirstEndUm: 25_020, widthSecondEndUm: 25_000, stripLengthUm: 400_000, pivotDistanceUm: 550_000 });
     const after = flat(text(pdfOf(await get(`/batches/${six.id}/setup-sheet`, sawyer), "sled-after")));
