@@ -4,7 +4,7 @@ import { data, redirect, type MiddlewareFunction, type RouterContextProvider } f
 import { eq } from "drizzle-orm";
 import { sessions, shops, users } from "../db/schema";
 import { userContext, type SignedInUser } from "~/context";
-import { getDb } from "~/db.server";
+import { getDb, isDatabaseUnavailable } from "~/db.server";
 import { can, deniedMessage, type Permission, type Role } from "~/lib/permissions";
 
 // Sessions expire 12 hours after the last renewal; lucia renews (a new expiry, same id) once half of
@@ -89,11 +89,19 @@ export const sessionMiddleware: MiddlewareFunction<Response> = async ({ request,
   let setCookie: string | null = null;
   let user: SignedInUser | null = null;
   if (sessionId) {
-    const { session } = await auth().validateSession(sessionId);
-    if (!session) setCookie = blankSessionCookie(request);
-    else {
-      user = await loadUser(session.userId);
-      if (session.fresh) setCookie = serialize(auth().createSessionCookie(session.id), request);
+    try {
+      const { session } = await auth().validateSession(sessionId);
+      if (!session) setCookie = blankSessionCookie(request);
+      else {
+        user = await loadUser(session.userId);
+        if (session.fresh) setCookie = serialize(auth().createSessionCookie(session.id), request);
+      }
+    } catch (error) {
+      // While PostgreSQL restarts, say so plainly (503) instead of failing with a 500.
+      if (!isDatabaseUnavailable(error)) throw error;
+      const message = "Stopwise cannot reach its database just now. Nothing was saved by this request; try again in a moment.";
+      if (isApiRequest(request)) return Response.json({ error: message }, { status: 503, headers: { "Retry-After": "5" } });
+      throw data(message, { status: 503 });
     }
   }
   context.set(userContext, user);

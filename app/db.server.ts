@@ -31,6 +31,17 @@ export function getDb(): Database {
   return connection().db;
 }
 
+const UNREACHABLE = new Set(["ECONNREFUSED", "ECONNRESET", "CONNECT_TIMEOUT", "CONNECTION_CLOSED", "CONNECTION_ENDED", "CONNECTION_DESTROYED", "57P01", "57P02", "57P03"]);
+
+/** Whether an error means the database is away (stopped, restarting, unreachable), not a bad query. */
+export function isDatabaseUnavailable(error: unknown): boolean {
+  for (let e: unknown = error; e && typeof e === "object"; e = (e as { cause?: unknown }).cause) {
+    const code = (e as { code?: string }).code;
+    if (code && UNREACHABLE.has(code)) return true;
+  }
+  return false;
+}
+
 /** Answers whether the database takes a query within `timeoutMs`, and why not when it does not. */
 export async function checkDatabase(timeoutMs = 2000): Promise<{ ok: true } | { ok: false; reason: string }> {
   let timer: NodeJS.Timeout | undefined;
