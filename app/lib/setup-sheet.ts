@@ -151,14 +151,15 @@ function list(numbers: number[]) {
   return numbers.length === 1 ? `cut ${numbers[0]}` : `cuts ${numbers.join(", ")}`;
 }
 
-function summariseOrders(origins: SheetPart["origins"]): string {
+/** "#1001 Ardent–Vasquez wedding (3), #1002 …"; the counts only when this set-up makes every copy. */
+function summariseOrders(origins: SheetPart["origins"], count: number): string {
   const byOrder = new Map<number, { customer: string; n: number }>();
   for (const o of origins) {
     const e = byOrder.get(o.orderNumber);
     if (e) e.n++;
     else byOrder.set(o.orderNumber, { customer: o.customerName, n: 1 });
   }
-  return [...byOrder.entries()].map(([n, e]) => `#${n} ${e.customer} (${e.n})`).join(", ");
+  return [...byOrder.entries()].map(([n, e]) => (count === origins.length ? `#${n} ${e.customer} (${e.n})` : `#${n} ${e.customer}`)).join(", ");
 }
 
 const KIND_NAME: Record<Setup["kind"], string> = { breakdown: "Breakdown", rip: "Rip", crosscut: "Crosscut" };
@@ -254,7 +255,7 @@ export function buildSetupSheet(input: SetupSheetInput): SetupSheet {
       where: where.join(" · "),
       parts: [...freed.entries()].map(([id, count]) => {
         const part = parts[id];
-        return { label: part ? `${part.name} ${size(part.lengthUm, part.widthUm)}` : id, count, orders: part ? summariseOrders(part.origins) : "" };
+        return { label: part ? `${part.name} ${size(part.lengthUm, part.widthUm)}` : id, count, orders: part ? summariseOrders(part.origins, count) : "" };
       }),
       flags,
       notes,

@@ -145,7 +145,7 @@ function fitLabel(doc: Doc, text: string, w: number, h: number): number | null {
 function panelDrawing(s: Sheet, panel: PanelView, kerfMm: number) {
   const { doc } = s;
   const { sheet } = panel;
-  const maxH = 250;
+  const maxH = 340;
   const scale = Math.min(s.width / sheet.length, maxH / sheet.width);
   const w = sheet.length * scale;
   const h = sheet.width * scale;

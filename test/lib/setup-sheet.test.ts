@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
 import type { Cut, Plan, SheetPlan } from "~/lib/packing/types";
+import { partLabels } from "~/lib/part-labels";
 import { buildSetupSheet, CAUTIONS, type SetupSheetInput } from "~/lib/setup-sheet";
 
 const cut = (kind: Cut["kind"], axis: Cut["axis"], at: number, from: number, to: number, setting: number): Cut => ({ stage: 1, kind, axis, at, from, to, setting, trim: false });
@@ -80,5 +81,17 @@ describe("set-up sheet derivation", () => {
     expect(sheetOut.offcutsToRack).toEqual(["916.8 × 700 mm — from panel 1"]);
     expect(sheetOut.cautions).toBe(CAUTIONS);
     expect(sheetOut.saw).toBe("Saw: none chosen in the plan settings.");
+  });
+});
+
+describe("part labels", () => {
+  it("makes one label per copy of every part, with its order, text and size", () => {
+    const o = (orderNumber: number, itemIndex: number, text: string | null) => ({ orderId: `o${orderNumber}`, orderNumber, customerName: "Zoë Nguyễn", lineId: "l", productName: "Table number", partName: "Number card", itemIndex, text });
+    const labels = partLabels("B-0003", [{ key: "k", name: "Number card", lengthUm: 210_000, widthUm: 150_000, grainLocked: true, process: "saw", quantity: 3, origins: [o(1001, 0, "Zoë"), o(1001, 1, "Nguyễn Thảo"), o(1002, 0, null)] }], "mm");
+    expect(labels).toEqual([
+      { orderId: "o1001", heading: "#1001 · Zoë Nguyễn", part: "Number card · 210 × 150 mm", text: "Zoë", product: "Table number", batch: "B-0003" },
+      { orderId: "o1001", heading: "#1001 · Zoë Nguyễn", part: "Number card · 210 × 150 mm", text: "Nguyễn Thảo", product: "Table number", batch: "B-0003" },
+      { orderId: "o1002", heading: "#1002 · Zoë Nguyễn", part: "Number card · 210 × 150 mm", text: null, product: "Table number", batch: "B-0003" },
+    ]);
   });
 });
