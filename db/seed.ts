@@ -1,6 +1,6 @@
 // The demo scenario of DESIGN.md: "Tallowmere Sign & Keepsake", a three-person shop.
 // Every name and figure here is invented for the demo.
-import { count, eq } from "drizzle-orm";
+import { count, eq, sql } from "drizzle-orm";
 import { generateIdFromEntropySize } from "lucia";
 import type { Database } from "../app/db.server";
 import { batchLedger } from "../app/lib/ledger";
@@ -182,9 +182,10 @@ export async function seedDemoHistory(db: Database, today = new Date()): Promise
       ])
       .returning();
     const sheet = { lengthUm: mm(2440), widthUm: mm(1220) };
+    const [{ last }] = await tx.select({ last: sql<number>`coalesce(max(${t.batches.number}), 0)` }).from(t.batches).where(eq(t.batches.shopId, shop.id));
     const books = [
-      { number: 1, material: birch6, line: plaqueLine, order: christening, cutAt: lastMonth(10), cost: 5290, parts: 12 * 400 * 150, kerf: 18_400, racked: [{ lengthUm: mm(1220), widthUm: mm(640) }] },
-      { number: 2, material: mdf6, line: menuLine, order: shopSigns, cutAt: lastMonth(14), cost: 2190, parts: 6 * (500 * 350 + 500 * 40), kerf: 11_900, racked: [] as { lengthUm: number; widthUm: number }[] },
+      { number: last + 1, material: birch6, line: plaqueLine, order: christening, cutAt: lastMonth(10), cost: 5290, parts: 12 * 400 * 150, kerf: 18_400, racked: [{ lengthUm: mm(1220), widthUm: mm(640) }] },
+      { number: last + 2, material: mdf6, line: menuLine, order: shopSigns, cutAt: lastMonth(14), cost: 2190, parts: 6 * (500 * 350 + 500 * 40), kerf: 11_900, racked: [] as { lengthUm: number; widthUm: number }[] },
     ];
     for (const b of books) {
       const [batch] = await tx.insert(t.batches).values({ shopId: shop.id, number: b.number, materialId: b.material.id, status: "cut", dueBy: iso(b.cutAt), releasedAt: b.cutAt, cutAt: b.cutAt }).returning();

@@ -63,7 +63,7 @@ describe("the planner in chromium, on a tablet", () => {
     await page.goBack();
 
     await page.locator('[data-plan="1"]').getByRole("button", { name: "Release to the saw" }).click();
-    await page.getByText("At the saw").waitFor();
+    await page.getByText("At the saw", { exact: true }).waitFor();
     expect((await waitForMail(s.shop.users.sawyer.email)).subject).toContain("is ready for the saw");
     expect(errors).toEqual([]);
   });
