@@ -19,6 +19,8 @@ export const PlanSettingsSchema = v.pipe(
     seconds: decimal("search time", 0.2, 30, "seconds"),
     stages: v.pipe(v.picklist(["0", "2", "3"], "Choose how the saw works the sheet."), v.transform((s) => Number(s) as 0 | 2 | 3)),
     objective: v.picklist(["sheets", "setups"], "Choose what the plan aims for."),
+    sawId: v.pipe(v.optional(v.string(), ""), v.check((id) => id === "" || /^[0-9a-f-]{36}$/.test(id), "Choose a saw from the list."), v.transform((id) => id || null)),
+    sledId: v.pipe(v.optional(v.string(), ""), v.check((id) => id === "" || /^[0-9a-f-]{36}$/.test(id), "Choose a sled from the list."), v.transform((id) => id || null)),
   }),
   v.transform(({ seconds, ...rest }) => ({ ...rest, timeLimitMs: Math.round(seconds * 1000), seed: Math.floor(Math.random() * 2 ** 31) })),
 );

@@ -1,6 +1,6 @@
 import { and, eq, inArray } from "drizzle-orm";
 import { createHash } from "node:crypto";
-import { offcuts, stockPanels, type PlanSettings } from "../../db/schema";
+import { offcuts, sleds, stockPanels, type PlanSettings } from "../../db/schema";
 import { getDb } from "~/db.server";
 import { mergeBatchParts, type MergedPart } from "~/lib/batch-parts";
 import { nestLaserParts, type LaserBlank } from "~/lib/laser-blanks";
@@ -48,6 +48,8 @@ export type StockRef = { kind: "panel" | "offcut"; id: string; costMinor: number
 export async function buildPackingJob(shop: ShopSettings, batch: { id: string; materialId: string }, settings: PlanSettings) {
   const db = getDb();
   const cutList = await batchCutList(batch.id, shop);
+  // The sled the planner chose sets the stop range and the widest crosscut; else the shop's settings do.
+  const [sled] = settings.sledId ? await db.select().from(sleds).where(and(eq(sleds.id, settings.sledId), eq(sleds.shopId, shop.id))) : [];
   const [panels, rack] = await Promise.all([
     db.select().from(stockPanels).where(and(eq(stockPanels.shopId, shop.id), eq(stockPanels.materialId, batch.materialId))),
     settings.offcutIds.length
@@ -85,7 +87,12 @@ export async function buildPackingJob(shop: ShopSettings, batch: { id: string; m
     stock,
     parts,
     minOffcut: { shortSide: umToMm(shop.minOffcutShortUm), area: shop.minOffcutAreaMm2 },
-    limits: { ripMax: umToMm(shop.ripMaxUm), sledWidthMax: umToMm(shop.sledWidthMaxUm), stopMin: umToMm(shop.stopMinUm), stopMax: umToMm(shop.stopMaxUm) },
+    limits: {
+      ripMax: umToMm(shop.ripMaxUm),
+      sledWidthMax: umToMm(sled?.widestUm ?? shop.sledWidthMaxUm),
+      stopMin: umToMm(sled?.stopMinUm ?? shop.stopMinUm),
+      stopMax: umToMm(sled?.stopMaxUm ?? shop.stopMaxUm),
+    },
   };
   return { job, stockRefs, cutList };
 }

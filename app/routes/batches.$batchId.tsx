@@ -20,6 +20,7 @@ import { rackedOffcuts } from "~/models/rack.server";
 import { batchCutList } from "~/models/plan-job.server";
 import { cancelPlan, listPlans, PlanStateError, releasePlan, requestPlan, sawyersOf, type PlanSummary } from "~/models/plans.server";
 import { getShop } from "~/models/shops.server";
+import { listSaws, listSleds } from "~/models/sleds.server";
 
 const Uuid = v.pipe(v.string(), v.uuid());
 const ORIGINS_SHOWN = 40;
@@ -29,11 +30,13 @@ export async function loader(args: Route.LoaderArgs) {
   const batch = v.is(Uuid, args.params.batchId) ? await getBatch(user.shopId, args.params.batchId) : null;
   if (!batch) throw data("No such batch in this shop.", { status: 404 });
   const shop = await getShop(user.shopId);
-  const [cutList, plans, siblings, offcuts] = await Promise.all([
+  const [cutList, plans, siblings, offcuts, saws, sleds] = await Promise.all([
     batchCutList(batch.id, shop),
     listPlans(user.shopId, batch.id),
     siblingBatches(user.shopId, batch.id, batch.materialId),
     rackedOffcuts(user.shopId, batch.materialId),
+    listSaws(user.shopId),
+    listSleds(user.shopId),
   ]);
   const unit = shop.displayUnit;
   const parts = cutList.sawn.map((p) => ({
@@ -53,7 +56,10 @@ export async function loader(args: Route.LoaderArgs) {
     plans,
     siblings,
     offcuts: offcuts.map((o) => ({ id: o.id, label: `${formatSize(o.lengthUm, o.widthUm, unit)}${o.location ? ` · ${o.location}` : ""}` })),
-    defaults: { kerf: shop.kerfUm / 1000, trim: shop.edgeTrimUm / 1000 },
+    // The kerf measured on the saw last comes first; the shop's default otherwise.
+    defaults: { kerf: (saws.find((s) => s.latestKerfUm !== null)?.latestKerfUm ?? shop.kerfUm) / 1000, trim: shop.edgeTrimUm / 1000 },
+    saws: saws.map((s) => ({ id: s.id, label: `${s.name}${s.latestKerfUm !== null ? ` · kerf measured ${s.latestKerfUm / 1000} mm` : " · kerf not measured"}`, kerfMm: s.latestKerfUm === null ? null : s.latestKerfUm / 1000 })),
+    sleds: sleds.map((s) => ({ id: s.id, label: `${s.name} · stop ${formatLength(s.stopMinUm, unit)}–${formatLength(s.stopMaxUm, unit)}` })),
     unit,
     currency: shop.currency,
     canWrite: can(user.role, "batches:write"),
@@ -128,7 +134,7 @@ const fetchPlans = async (url: string): Promise<{ plans: PlanSummary[] }> => {
 };
 
 export default function BatchPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { batch, parts, laser, siblings, offcuts, defaults, unit, currency, canWrite } = loaderData;
+  const { batch, parts, laser, siblings, offcuts, defaults, unit, currency, canWrite, saws, sleds } = loaderData;
   const errors: Record<string, string> = actionData?.errors ?? {};
   const editable = canWrite && (batch.status === "open" || batch.status === "planned");
   // Poll while a plan is queued or running; otherwise the list stays as loaded.
@@ -289,7 +295,7 @@ export default function BatchPage({ loaderData, actionData }: Route.ComponentPro
           <h2 className="text-xl font-semibold">Plan the panels</h2>
           <Form method="post" className="grid gap-4 md:grid-cols-3" noValidate>
             <input type="hidden" name="intent" value="run-plan" />
-            <PlanSettingsFields defaults={defaults} errors={errors} offcuts={offcuts} unit={unit} />
+            <PlanSettingsFields defaults={defaults} errors={errors} offcuts={offcuts} unit={unit} saws={saws} sleds={sleds} />
             <SubmitButton className="md:col-span-3 md:w-fit" pendingText="Queueing…">
               Run a plan
             </SubmitButton>
@@ -331,14 +337,49 @@ export default function BatchPage({ loaderData, actionData }: Route.ComponentPro
   );
 }
 
-function PlanSettingsFields({ defaults, errors, offcuts, unit }: { defaults: { kerf: number; trim: number }; errors: Record<string, string>; offcuts: { id: string; label: string }[]; unit: "mm" | "in" }) {
+type Choice = { id: string; label: string };
+
+function PlanSettingsFields({ defaults, errors, offcuts, unit, saws, sleds }: { defaults: { kerf: number; trim: number }; errors: Record<string, string>; offcuts: Choice[]; unit: "mm" | "in"; saws: (Choice & { kerfMm: number | null })[]; sleds: Choice[] }) {
   const input = "block w-full rounded-md border border-line bg-white px-3 py-2.5";
   const err = (f: string) => errors[f] && <p className="text-sm font-medium text-bad">{errors[f]}</p>;
+  const [kerf, setKerf] = useState(String(defaults.kerf));
   return (
     <>
       <label className="space-y-1 text-sm font-medium">
+        <span>Saw</span>
+        <select
+          name="sawId"
+          defaultValue={saws.find((s) => s.kerfMm !== null)?.id ?? ""}
+          onChange={(e) => {
+            const chosen = saws.find((s) => s.id === e.target.value);
+            if (chosen?.kerfMm != null) setKerf(String(chosen.kerfMm));
+          }}
+          className={input}
+        >
+          <option value="">None chosen</option>
+          {saws.map((s) => (
+            <option key={s.id} value={s.id}>
+              {s.label}
+            </option>
+          ))}
+        </select>
+        {err("sawId")}
+      </label>
+      <label className="space-y-1 text-sm font-medium md:col-span-2">
+        <span>Crosscut sled (its stop range and widest piece bound the plan)</span>
+        <select name="sledId" defaultValue={sleds[0]?.id ?? ""} className={input}>
+          <option value="">None chosen: the shop's saw capacities</option>
+          {sleds.map((s) => (
+            <option key={s.id} value={s.id}>
+              {s.label}
+            </option>
+          ))}
+        </select>
+        {err("sledId")}
+      </label>
+      <label className="space-y-1 text-sm font-medium">
         <span>Kerf (mm)</span>
-        <input name="kerfMm" inputMode="decimal" defaultValue={defaults.kerf} className={input} aria-invalid={errors.kerfMm ? true : undefined} />
+        <input name="kerfMm" inputMode="decimal" value={kerf} onChange={(e) => setKerf(e.target.value)} className={input} aria-invalid={errors.kerfMm ? true : undefined} />
         {err("kerfMm")}
       </label>
       <label className="space-y-1 text-sm font-medium">

@@ -133,6 +133,21 @@ describe("plans on the real queue", () => {
     expect(visible(view.text)).toContain("Panel 1 of 1: full sheet 2440 × 1220 mm");
   });
 
+  it("the saw's latest kerf is the form's default, and the chosen sled's stop range bounds the plan", async () => {
+    const [saw] = await db.insert(t.saws).values({ shopId: s.shop.id, name: "Test saw" }).returning();
+    await db.insert(t.kerfMeasurements).values({ shopId: s.shop.id, sawId: saw.id, kerfUm: 2600 });
+    const [sled] = await db.insert(t.sleds).values({ shopId: s.shop.id, sawId: saw.id, name: "Short sled", stopMinUm: 20_000, stopMaxUm: 500_000, widestUm: 610_000 }).returning();
+    const owner = await signIn(server, s.shop.users.owner);
+    const page = await request(server).get(`/batches/${six}`).set("Cookie", owner);
+    expect(page.text).toMatch(/name="kerfMm"[^>]*value="2.6"/);
+    const planId = await requestPlan(s.shop.id, six, settings({ sawId: saw.id, sledId: sled.id, kerfMm: 2.6 }));
+    const done = await waitForPlan(planId, ["done", "failed"]);
+    const setups = (done.result as { plan: { setups: { kind: string; setting: number; outsideStopRange?: boolean }[] } }).plan.setups;
+    const crosscuts = setups.filter((x) => x.kind === "crosscut");
+    expect(crosscuts.some((x) => x.setting > 500)).toBe(true); // the 600 mm sign face
+    for (const x of crosscuts) expect(Boolean(x.outsideStopRange)).toBe(x.setting > 500);
+  });
+
   it("names bad plan settings", async () => {
     const owner = await signIn(server, s.shop.users.planner);
     const res = await request(server).post(`/batches/${six}`).set("Cookie", owner).type("form").send({ intent: "run-plan", kerfMm: "-1", trimMm: "ten", seconds: "600", stages: "4", objective: "cheapest" });
