@@ -4,7 +4,7 @@ import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import * as t from "../../db/schema";
 import { DEMO_PASSWORD, seedDemo, seedDemoHistory } from "../../db/seed";
-import { launchBrowser, VIEWPORTS } from "../support/browser";
+import { launchBrowser, signInThroughForm, VIEWPORTS } from "../support/browser";
 import { startApp } from "../support/server";
 import { getDb } from "~/db.server";
 import { previousMonth } from "~/lib/ledger-report";
@@ -35,10 +35,7 @@ describe("the bookkeeper in chromium", () => {
     const page = await context.newPage();
     const errors: string[] = [];
     page.on("pageerror", (err) => errors.push(err.message));
-    await page.goto(`${app.url}/sign-in?redirectTo=/ledger`);
-    await page.getByLabel("E-mail").fill("books@tallowmere.example");
-    await page.getByLabel("Password").fill(DEMO_PASSWORD);
-    await page.getByRole("button", { name: "Sign in" }).click();
+    await signInThroughForm(page, app.url, { email: "books@tallowmere.example", password: DEMO_PASSWORD }, "/ledger");
     await page.getByRole("heading", { level: 1, name: "Ledger" }).waitFor();
 
     const month = previousMonth(new Date().toISOString().slice(0, 10));

@@ -2,16 +2,13 @@ import { eq } from "drizzle-orm";
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import * as t from "../../db/schema";
-import { launchBrowser, VIEWPORTS } from "../support/browser";
+import { launchBrowser, signInThroughForm, VIEWPORTS } from "../support/browser";
 import { createShop, type TestShop } from "../support/factories";
 import { startApp } from "../support/server";
 import { getDb } from "~/db.server";
 
 async function signInAs(page: Page, url: string, user: { email: string; password: string }) {
-  await page.goto(`${url}/sign-in`);
-  await page.getByLabel("E-mail").fill(user.email);
-  await page.getByLabel("Password").fill(user.password);
-  await page.getByRole("button", { name: "Sign in" }).click();
+  await signInThroughForm(page, url, user);
   await page.getByRole("heading", { level: 1, name: "From the order to the offcut" }).waitFor();
 }
 

@@ -1,6 +1,6 @@
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { launchBrowser, VIEWPORTS } from "../support/browser";
+import { launchBrowser, signInThroughForm, VIEWPORTS } from "../support/browser";
 import { createShop, type TestShop } from "../support/factories";
 import { createCatalogue } from "../support/order-factories";
 import { waitForMail } from "../support/outbox";
@@ -25,11 +25,7 @@ describe("the owner takes the wedding order in chromium", () => {
     const page = await browser.newPage({ viewport: VIEWPORTS.desktop });
     const errors: string[] = [];
     page.on("pageerror", (err) => errors.push(err.message));
-    await page.goto(`${app.url}/sign-in`);
-    await page.getByLabel("E-mail").fill(shop.users.owner.email);
-    await page.getByLabel("Password").fill(shop.users.owner.password);
-    await page.getByRole("button", { name: "Sign in" }).click();
-    await page.waitForURL(`${app.url}/`);
+    await signInThroughForm(page, app.url, shop.users.owner);
 
     const email = `celia-${Date.now()}@example.com`;
     await page.goto(`${app.url}/customers/new`);

@@ -1,7 +1,7 @@
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { batchScenario } from "../support/batch-factories";
-import { launchBrowser, VIEWPORTS } from "../support/browser";
+import { launchBrowser, signInThroughForm, VIEWPORTS } from "../support/browser";
 import { waitForMail } from "../support/outbox";
 import { startApp } from "../support/server";
 
@@ -23,10 +23,7 @@ describe("the planner in chromium, on a tablet", () => {
     const page = await browser.newPage({ viewport: VIEWPORTS.tablet });
     const errors: string[] = [];
     page.on("pageerror", (err) => errors.push(err.message));
-    await page.goto(`${app.url}/sign-in?redirectTo=/batches`);
-    await page.getByLabel("E-mail").fill(s.shop.users.planner.email);
-    await page.getByLabel("Password").fill(s.shop.users.planner.password);
-    await page.getByRole("button", { name: "Sign in" }).click();
+    await signInThroughForm(page, app.url, s.shop.users.planner, "/batches");
     await page.getByRole("heading", { level: 1, name: "Batches" }).waitFor();
 
     await page.getByLabel("Due by").fill("2027-01-15");

@@ -33,3 +33,12 @@ export function launchBrowser(): Promise<Browser> {
     ],
   });
 }
+
+/** Signs in through the real form, then lands on `to` (the form's return address). */
+export async function signInThroughForm(page: import("playwright-core").Page, appUrl: string, user: { email: string; password: string }, to = "/") {
+  await page.goto(`${appUrl}/sign-in?redirectTo=${encodeURIComponent(to)}`);
+  await page.getByLabel("E-mail").fill(user.email);
+  await page.getByLabel("Password").fill(user.password);
+  await page.getByRole("button", { name: "Sign in" }).click();
+  await page.waitForURL((url) => url.pathname === to.split("?")[0]);
+}
