@@ -169,3 +169,14 @@ describe("cross-site request forgery (ASVS 4.0.3 V4.2.2, V13.2.3)", () => {
     expect(res.status).toBe(302);
   });
 });
+
+describe("response headers (ASVS 4.0.3 V14.4.3–V14.4.7)", () => {
+  it("pages say nosniff, same-origin referrers, and may not be framed", async () => {
+    const res = await request(server).get("/sign-in");
+    expect(res.headers["x-content-type-options"]).toBe("nosniff");
+    expect(res.headers["referrer-policy"]).toBe("same-origin");
+    expect(res.headers["x-frame-options"]).toBe("DENY");
+    expect(res.headers["content-security-policy"]).toContain("frame-ancestors 'none'");
+    expect(res.headers["content-type"]).toBe("text/html; charset=utf-8");
+  });
+});
