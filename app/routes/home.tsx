@@ -34,11 +34,16 @@ export default function Home({ loaderData }: Route.ComponentProps) {
       <ol className="grid gap-3 sm:grid-cols-2 lg:grid-cols-5">
         {FLOW.map((item, i) => (
           <li key={item.step}>
-            <Link to={item.path} className="block h-full rounded-lg border border-line bg-card p-4 hover:border-edge">
-              <span className="text-sm font-semibold text-edge">Step {i + 1}</span>
-              <span className="mt-1 block font-semibold">{item.step}</span>
-              <span className="mt-1 block text-sm text-muted">{item.detail}</span>
-            </Link>
+            {/* A step outside this role's areas is shown, not linked: the whole flow stays in view. */}
+            {areas.some((a) => a.path === item.path) ? (
+              <Link to={item.path} className="block h-full rounded-lg border border-line bg-card p-4 hover:border-edge">
+                <FlowStep index={i} step={item.step} detail={item.detail} />
+              </Link>
+            ) : (
+              <div className="block h-full rounded-lg border border-dashed border-line p-4 opacity-80">
+                <FlowStep index={i} step={item.step} detail={item.detail} />
+              </div>
+            )}
           </li>
         ))}
       </ol>
@@ -60,5 +65,15 @@ export default function Home({ loaderData }: Route.ComponentProps) {
         </ul>
       </section>
     </div>
+  );
+}
+
+function FlowStep({ index, step, detail }: { index: number; step: string; detail: string }) {
+  return (
+    <>
+      <span className="text-sm font-semibold text-edge">Step {index + 1}</span>
+      <span className="mt-1 block font-semibold">{step}</span>
+      <span className="mt-1 block text-sm text-muted">{detail}</span>
+    </>
   );
 }
