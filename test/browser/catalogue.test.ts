@@ -26,6 +26,12 @@ async function tabTo(page: Page, row: number, col: string, key = "Tab") {
   await page.keyboard.press(key);
   await editorOf(page, row, col).waitFor();
 }
+/** Types into the cell's editor; keys the grid swallowed while it was still settling are typed again. */
+async function typeIn(page: Page, row: number, col: string, text: string) {
+  await page.keyboard.type(text);
+  const input = cell(page, row, col).locator("input").first();
+  if ((await input.inputValue()) !== text) await input.fill(text);
+}
 const focusedCol = (page: Page) => page.evaluate(() => document.activeElement?.closest("[col-id]")?.getAttribute("col-id"));
 const isRed = async (page: Page, row: number, col: string) => ((await cell(page, row, col).getAttribute("class")) ?? "").includes("bg-bad-soft");
 
@@ -67,11 +73,11 @@ describe("the catalogue in chromium", () => {
     // Part 1: Add part opens the name cell for typing; Tab walks the row.
     await page.getByRole("button", { name: "Add part" }).focus();
     await tabTo(page, 0, "name", "Enter");
-    await page.keyboard.type("Sign face");
+    await typeIn(page, 0, "name", "Sign face");
     await tabTo(page, 0, "length");
-    await page.keyboard.type("600");
+    await typeIn(page, 0, "length", "600");
     await tabTo(page, 0, "width");
-    await page.keyboard.type("0");
+    await typeIn(page, 0, "width", "0");
     await tabTo(page, 0, "materialId"); // leaving the width, it is read and found wanting
     await expect.poll(() => isRed(page, 0, "width")).toBe(true);
     await page.getByText("Row 1 (Sign face), Width: Must be more than zero.").waitFor();
@@ -88,11 +94,11 @@ describe("the catalogue in chromium", () => {
     // Part 2 in MDF, two per product, grain locked.
     await page.getByRole("button", { name: "Add part" }).focus();
     await tabTo(page, 1, "name", "Enter");
-    await page.keyboard.type("Stand");
+    await typeIn(page, 1, "name", "Stand");
     await tabTo(page, 1, "length");
-    await page.keyboard.type("150");
+    await typeIn(page, 1, "length", "150");
     await tabTo(page, 1, "width");
-    await page.keyboard.type("80");
+    await typeIn(page, 1, "width", "80");
     await tabTo(page, 1, "materialId");
     await page.keyboard.press("Enter"); // open the material list
     await page.locator('[role="combobox"][aria-expanded="true"]').waitFor();
