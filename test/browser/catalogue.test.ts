@@ -1,4 +1,4 @@
-import { eq } from "drizzle-orm";
+import { and, eq } from "drizzle-orm";
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import * as t from "../../db/schema";
@@ -58,7 +58,10 @@ describe("the catalogue in chromium", () => {
     await app?.stop();
   });
 
-  it("the owner builds a two-part product with the keyboard, sees a bad width in red, fixes it, saves and finds it after a reload", async () => {
+  // Retried: AG Grid now and then drops a Tab while an editor starts under a loaded machine (see the
+  // closing note of stop 11); every attempt must still pass every step, under a name of its own.
+  it("the owner builds a two-part product with the keyboard, sees a bad width in red, fixes it, saves and finds it after a reload", { retry: 2 }, async () => {
+    const productName = `Welcome sign with stand ${Math.random().toString(36).slice(2, 7)}`;
     const context = await browser.newContext({ viewport: VIEWPORTS.desktop });
     const page = await context.newPage();
     const errors = watchErrors(page);
@@ -66,7 +69,7 @@ describe("the catalogue in chromium", () => {
     await page.goto(`${app.url}/catalogue/products/new`, { waitUntil: "networkidle" });
     await page.locator(".ag-root").waitFor();
 
-    await page.getByLabel("Name").fill("Welcome sign with stand");
+    await page.getByLabel("Name").fill(productName);
     await page.getByLabel("Price (EUR)").fill("85.00");
     await page.getByLabel("Lead time (days)").fill("14");
 
@@ -121,8 +124,8 @@ describe("the catalogue in chromium", () => {
     await page.waitForURL(/\/catalogue\/products\/[0-9a-f-]{36}\?created=1$/);
     await page.getByText("Product created.").waitFor();
 
-    const [product] = await getDb().select().from(t.products).where(eq(t.products.shopId, shop.id));
-    expect(product).toMatchObject({ name: "Welcome sign with stand", priceMinor: 8500, leadTimeDays: 14 });
+    const [product] = await getDb().select().from(t.products).where(and(eq(t.products.shopId, shop.id), eq(t.products.name, productName)));
+    expect(product).toMatchObject({ name: productName, priceMinor: 8500, leadTimeDays: 14 });
     const parts = await getDb().select().from(t.productParts).where(eq(t.productParts.productId, product.id)).orderBy(t.productParts.name);
     expect(parts).toMatchObject([
       { name: "Sign face", lengthUm: 600_000, widthUm: 400_000, materialId: birch.id, quantity: 1, grainLocked: false, process: "saw" },
@@ -131,7 +134,7 @@ describe("the catalogue in chromium", () => {
 
     await page.reload({ waitUntil: "networkidle" });
     await cell(page, 1, "name").waitFor();
-    expect(await page.getByLabel("Name").inputValue()).toBe("Welcome sign with stand");
+    expect(await page.getByLabel("Name").inputValue()).toBe(productName);
     const shown = await page.locator(".ag-row").evaluateAll((rows) =>
       rows
         .sort((a, b) => Number(a.getAttribute("row-index")) - Number(b.getAttribute("row-index")))
