@@ -3,7 +3,7 @@
 import { count, eq, sql } from "drizzle-orm";
 import { generateIdFromEntropySize } from "lucia";
 import type { Database } from "../app/db.server";
-import { batchLedger } from "../app/lib/ledger";
+import { batchLedger, ledgerFigures } from "../app/lib/ledger";
 import { hashPassword } from "../app/password.server";
 import * as t from "./schema";
 
@@ -203,18 +203,7 @@ export async function seedDemoHistory(db: Database, today = new Date()): Promise
         shopId: shop.id,
         materialId: b.material.id,
         cutAt: b.cutAt,
-        stockAreaMm2: ledger.stockAreaMm2,
-        offcutDrawnAreaMm2: 0,
-        partsAreaMm2: ledger.partsAreaMm2,
-        kerfLossMm2: ledger.kerfLossMm2,
-        rackedAreaMm2: ledger.rackedAreaMm2,
-        scrapAreaMm2: ledger.scrapAreaMm2,
-        spoiledAreaMm2: 0,
-        spoiledCount: 0,
-        costDrawnMinor: ledger.costDrawnMinor,
-        valueReturnedMinor: ledger.valueReturnedMinor,
-        scrapCostMinor: ledger.scrapCostMinor,
-        spoiledCostMinor: 0,
+        ...ledgerFigures(ledger),
         panels: [{ kind: "panel", ...sheet, costMinor: b.cost, partsAreaMm2: b.parts }],
         allocations: ledger.allocations,
       });

@@ -42,6 +42,13 @@ export type BatchLedger = {
   allocations: { orderId: string; orderNumber: number; partsAreaMm2: number; costMinor: number }[];
 };
 
+/** The figures a batch's books keep (batch_costs columns); net cost and yield follow from them. */
+export type LedgerFigures = Omit<BatchLedger, "netCostMinor" | "yield" | "allocations">;
+
+export function ledgerFigures({ netCostMinor: _net, yield: _yield, allocations: _allocations, ...figures }: BatchLedger): LedgerFigures {
+  return figures;
+}
+
 const areaMm2 = (lengthUm: number, widthUm: number) => Math.round((lengthUm * widthUm) / 1e6);
 
 /** Splits `total` in proportion to `weights` so the parts sum to `total` exactly (largest remainder). */

@@ -1,6 +1,6 @@
 import { and, asc, desc, eq, inArray, sql } from "drizzle-orm";
 import { batchCosts, batches, materials, offcuts, plans, recutParts, setupTicks, stockPanels, type RecutOrigin } from "../../db/schema";
-import { batchLedger } from "~/lib/ledger";
+import { batchLedger, ledgerFigures } from "~/lib/ledger";
 import { batchSources } from "./batches.server";
 import { cheapestCostPerArea } from "./plan-job.server";
 import { getDb } from "~/db.server";
@@ -157,18 +157,7 @@ async function writeBatchCosts(tx: Tx, shopId: string, batch: typeof batches.$in
     shopId,
     materialId: batch.materialId,
     cutAt,
-    stockAreaMm2: ledger.stockAreaMm2,
-    offcutDrawnAreaMm2: ledger.offcutDrawnAreaMm2,
-    partsAreaMm2: ledger.partsAreaMm2,
-    kerfLossMm2: ledger.kerfLossMm2,
-    rackedAreaMm2: ledger.rackedAreaMm2,
-    scrapAreaMm2: ledger.scrapAreaMm2,
-    spoiledAreaMm2: ledger.spoiledAreaMm2,
-    spoiledCount: ledger.spoiledCount,
-    costDrawnMinor: ledger.costDrawnMinor,
-    valueReturnedMinor: ledger.valueReturnedMinor,
-    scrapCostMinor: ledger.scrapCostMinor,
-    spoiledCostMinor: ledger.spoiledCostMinor,
+    ...ledgerFigures(ledger),
     panels: sheets,
     allocations: ledger.allocations,
   });

@@ -1,26 +1,9 @@
 import { and, asc, eq, gte, lt, sql } from "drizzle-orm";
 import { batchCosts, batches, materials } from "../../db/schema";
 import { getDb } from "~/db.server";
+import type { LedgerFigures } from "~/lib/ledger";
 
-export type LedgerRow = {
-  batchId: string;
-  batchNumber: number;
-  materialId: string;
-  materialName: string;
-  cutAt: Date;
-  stockAreaMm2: number;
-  offcutDrawnAreaMm2: number;
-  partsAreaMm2: number;
-  kerfLossMm2: number;
-  rackedAreaMm2: number;
-  scrapAreaMm2: number;
-  spoiledAreaMm2: number;
-  spoiledCount: number;
-  costDrawnMinor: number;
-  valueReturnedMinor: number;
-  scrapCostMinor: number;
-  spoiledCostMinor: number;
-};
+export type LedgerRow = LedgerFigures & { batchId: string; batchNumber: number; materialId: string; materialName: string; cutAt: Date };
 
 const columns = {
   batchId: batchCosts.batchId,
