@@ -14,6 +14,8 @@ export type BatchSource = {
   lineQuantity: number;
   /** text i belongs to product item i; may be shorter than lineQuantity or empty */
   personalisation: string[];
+  /** the line's item number of personalisation[0]: a recut is one item that keeps its own number */
+  firstItemIndex?: number;
   partName: string;
   lengthUm: number;
   widthUm: number;
@@ -99,7 +101,7 @@ export function mergeBatchParts(sources: BatchSource[]): MergedPart[] {
           lineId: source.lineId,
           productName: source.productName,
           partName: source.partName,
-          itemIndex,
+          itemIndex: (source.firstItemIndex ?? 0) + itemIndex,
           text,
         });
       }
@@ -120,4 +122,39 @@ export function mergeBatchParts(sources: BatchSource[]): MergedPart[] {
       b.lengthUm * b.widthUm - a.lengthUm * a.widthUm ||
       compareText(a.key, b.key),
   );
+}
+
+/** One product item a merged row was made for: the index of its first origin and how many pieces it holds. */
+export type PartItem = { first: number; pieces: number; origin: PartOrigin };
+
+/** The distinct items behind a merged row, in the row's order (copies of one item sit together). */
+export function itemsOf(origins: PartOrigin[]): PartItem[] {
+  const items = new Map<string, PartItem>();
+  origins.forEach((origin, i) => {
+    const key = `${origin.lineId}:${origin.itemIndex}`;
+    const item = items.get(key);
+    if (item) item.pieces++;
+    else items.set(key, { first: i, pieces: 1, origin });
+  });
+  return [...items.values()];
+}
+
+export type SpoiledPick = { ok: true; origins: (PartOrigin | null)[] } | { ok: false; field: "item" | "quantity"; error: string };
+
+/**
+ * Which origins spoiled pieces carry into their recut: the chosen item's own pieces, or, with no item
+ * chosen, the row's first ones. A row without origins (a laser blank) gives pieces of no order.
+ */
+export function spoiledOrigins(origins: PartOrigin[], item: number | null, quantity: number): SpoiledPick {
+  if (origins.length === 0) return { ok: true, origins: Array.from({ length: quantity }, () => null) };
+  if (item === null) {
+    if (quantity > origins.length) return { ok: false, field: "quantity", error: `How many: this batch has ${origins.length} of this part.` };
+    return { ok: true, origins: origins.slice(0, quantity) };
+  }
+  const chosen = itemsOf(origins).find((i) => i.first === item);
+  if (!chosen) return { ok: false, field: "item", error: "Which item: choose one of this part's items." };
+  if (quantity > chosen.pieces) {
+    return { ok: false, field: "quantity", error: `How many: that item has ${chosen.pieces === 1 ? "1 piece" : `${chosen.pieces} pieces`} of this part.` };
+  }
+  return { ok: true, origins: origins.slice(chosen.first, chosen.first + quantity) };
 }

@@ -199,6 +199,7 @@ export async function batchSources(batchId: string, db: Db = getDb()): Promise<B
       productName: r.origin?.productName ?? r.partName,
       lineQuantity: 1,
       personalisation: r.origin?.text ? [r.origin.text] : [],
+      firstItemIndex: r.origin?.itemIndex ?? 0,
       partName: r.partName,
       lengthUm: r.lengthUm,
       widthUm: r.widthUm,

@@ -1,10 +1,12 @@
 import * as v from "valibot";
+import { useState } from "react";
 import { data, Form, Link, redirect, useFetcher } from "react-router";
 import type { Route } from "./+types/saw.$batchId";
 import { requirePermission } from "~/auth.server";
 import { BatchBadge } from "~/components/batch-badge";
 import { FormAlert, SubmitButton } from "~/components/forms";
 import { PageHeader } from "~/components/page-header";
+import { itemsOf, spoiledOrigins } from "~/lib/batch-parts";
 import { parseForm } from "~/lib/forms";
 import { can } from "~/lib/permissions";
 import { formatLength, formatSize, parseLength } from "~/lib/units";
@@ -52,8 +54,12 @@ export async function loader(args: Route.LoaderArgs) {
       cut: ticked.get(i) ?? null,
     })),
     parts: [
-      ...cutList.sawn.map((p) => ({ key: p.key, label: `${p.name} ${formatSize(p.lengthUm, p.widthUm, unit)}`, origins: p.origins.map((o, i) => ({ i, label: `#${o.orderNumber} ${o.customerName}${o.text ? ` · ${o.text}` : ""}` })) })),
-      ...(cutList.blanks.length ? [{ key: LASER_BLANK_PART, label: `Laser blank ${formatSize(shop.laserBedLengthUm, shop.laserBedWidthUm, unit)}`, origins: [] }] : []),
+      ...cutList.sawn.map((p) => ({
+        key: p.key,
+        label: `${p.name} ${formatSize(p.lengthUm, p.widthUm, unit)}`,
+        items: itemsOf(p.origins).map(({ first, pieces, origin: o }) => ({ value: first, label: `${o.text ? `${o.text} · ` : ""}#${o.orderNumber} ${o.customerName}, item ${o.itemIndex + 1}${pieces > 1 ? ` (${pieces} pieces)` : ""}` })), // the text first: it is what is cut into the piece
+      })),
+      ...(cutList.blanks.length ? [{ key: LASER_BLANK_PART, label: `Laser blank ${formatSize(shop.laserBedLengthUm, shop.laserBedWidthUm, unit)}`, items: [] }] : []),
     ],
     recuts: state.recuts.map((r) => ({ ...r, size: formatSize(r.lengthUm, r.widthUm, unit) })),
     offcuts: made.map((o) => ({ id: o.id, status: o.status, length: formatLength(o.lengthUm, unit, { showRounding: false }).replace(/ (mm|in)$/, ""), width: formatLength(o.widthUm, unit, { showRounding: false }).replace(/ (mm|in)$/, ""), location: o.location })),
@@ -62,7 +68,7 @@ export async function loader(args: Route.LoaderArgs) {
 }
 
 const ActionSchema = v.variant("intent", [
-  v.object({ intent: v.literal("spoil"), part: v.pipe(v.string("Choose the part."), v.nonEmpty("Choose the part.")), origin: v.optional(v.string(), ""), quantity: v.pipe(v.string(), v.transform(Number), v.integer("Quantity: a whole number."), v.minValue(1, "Quantity: 1 or more."), v.maxValue(500, "Quantity: at most 500.")), reason: v.pipe(v.string("Say what went wrong."), v.trim(), v.nonEmpty("Say what went wrong, e.g. tear-out or cut short."), v.maxLength(200, "Reason: at most 200 characters.")) }),
+  v.object({ intent: v.literal("spoil"), part: v.pipe(v.string("Choose the part."), v.nonEmpty("Choose the part.")), item: v.optional(v.pipe(v.string(), v.regex(/^\d*$/, "Which item: choose one of this part's items.")), ""), quantity: v.pipe(v.string(), v.transform(Number), v.integer("Quantity: a whole number."), v.minValue(1, "Quantity: 1 or more."), v.maxValue(500, "Quantity: at most 500.")), reason: v.pipe(v.string("Say what went wrong."), v.trim(), v.nonEmpty("Say what went wrong, e.g. tear-out or cut short."), v.maxLength(200, "Reason: at most 200 characters.")) }),
   v.object({ intent: v.literal("close") }),
 ], "Unknown action.");
 
@@ -78,12 +84,12 @@ export async function action(args: Route.ActionArgs) {
       const blank = input.part === LASER_BLANK_PART;
       const part = cutList.sawn.find((p) => p.key === input.part);
       if (!part && !blank) return data({ errors: { part: "Choose one of this batch's parts." } }, { status: 400 });
-      const origin = part && input.origin !== "" ? part.origins[Number(input.origin)] ?? null : null;
-      const origins = Array.from({ length: input.quantity }, (_, i) => origin ?? part?.origins[i] ?? null);
+      const pick = spoiledOrigins(part?.origins ?? [], input.item === "" ? null : Number(input.item), input.quantity);
+      if (!pick.ok) return data({ errors: { [pick.field]: pick.error } }, { status: 400 });
       const spec = part
         ? { partName: part.name, lengthUm: part.lengthUm, widthUm: part.widthUm, grainLocked: part.grainLocked, process: "saw" as const }
         : { partName: "Laser blank", lengthUm: shop.laserBedLengthUm, widthUm: shop.laserBedWidthUm, grainLocked: false, process: "saw" as const };
-      await spoilPart(user.shopId, user.id, batch.id, spec, origins, input.reason);
+      await spoilPart(user.shopId, user.id, batch.id, spec, pick.origins, input.reason);
     } else {
       const decisions: RackDecision[] = [];
       const errors: Record<string, string> = {};
@@ -277,12 +283,15 @@ function SetupRow({ setup, batchId, canWrite }: { setup: SetupView; batchId: str
 }
 
 function SpoilForm({ parts, errors }: { parts: Awaited<ReturnType<typeof loader>>["parts"]; errors: Record<string, string> }) {
+  // Personalised pieces differ: the sawyer says whose card was spoiled, so its recut carries the right text.
+  const [partKey, setPartKey] = useState("");
+  const items = parts.find((p) => p.key === partKey)?.items ?? [];
   return (
     <Form method="post" className="grid gap-3 rounded-lg border border-line bg-card p-4 md:grid-cols-4" noValidate>
       <input type="hidden" name="intent" value="spoil" />
       <label className="space-y-1 text-sm font-medium md:col-span-2">
         <span className="block">Part</span>
-        <select name="part" className="block min-h-12 w-full rounded-md border border-line bg-white px-3 text-base" defaultValue="">
+        <select name="part" className="block min-h-12 w-full rounded-md border border-line bg-white px-3 text-base" value={partKey} onChange={(e) => setPartKey(e.target.value)}>
           <option value="">Choose…</option>
           {parts.map((p) => (
             <option key={p.key} value={p.key}>
@@ -292,17 +301,30 @@ function SpoilForm({ parts, errors }: { parts: Awaited<ReturnType<typeof loader>
         </select>
         {errors.part && <span className="block text-bad">{errors.part}</span>}
       </label>
+      <label className="space-y-1 text-sm font-medium md:col-span-2">
+        <span className="block">Which item</span>
+        <select name="item" key={partKey} disabled={items.length < 2} className="block min-h-12 w-full rounded-md border border-line bg-white px-3 text-base disabled:text-muted" defaultValue="">
+          <option value="">{items.length === 1 ? items[0].label : "Not sure: the first ones"}</option>
+          {items.length > 1 &&
+            items.map((item) => (
+              <option key={item.value} value={item.value}>
+                {item.label}
+              </option>
+            ))}
+        </select>
+        {errors.item && <span className="block text-bad">{errors.item}</span>}
+      </label>
       <label className="space-y-1 text-sm font-medium">
         <span className="block">How many</span>
         <input name="quantity" inputMode="numeric" defaultValue="1" className="block min-h-12 w-full rounded-md border border-line bg-white px-3 text-base" />
         {errors.quantity && <span className="block text-bad">{errors.quantity}</span>}
       </label>
-      <label className="space-y-1 text-sm font-medium">
+      <label className="space-y-1 text-sm font-medium md:col-span-2">
         <span className="block">What went wrong</span>
         <input name="reason" placeholder="tear-out, cut short…" className="block min-h-12 w-full rounded-md border border-line bg-white px-3 text-base" />
         {errors.reason && <span className="block text-bad">{errors.reason}</span>}
       </label>
-      <SubmitButton className="min-h-12 md:w-fit">Record and cut again later</SubmitButton>
+      <SubmitButton className="min-h-12 md:w-fit md:self-end">Record and cut again later</SubmitButton>
     </Form>
   );
 }

@@ -58,6 +58,12 @@ describe("the sawyer on a tablet beside the saw", () => {
     await page.getByText(`${total} of ${total} set-ups done`).waitFor(); // the ticks survived
 
     await page.locator('select[name="part"]').selectOption({ label: "Number card 210 × 150 mm" });
+    // Each personalised card is its own item: the sawyer names the one that tore.
+    const item = page.locator('select[name="item"]');
+    await expect.poll(() => item.isEnabled()).toBe(true);
+    const tableTwo = await item.locator("option", { hasText: "Table 2" }).textContent();
+    expect(tableTwo).toMatch(/^Table 2 · #\d+ .+, item 2$/);
+    await item.selectOption({ label: tableTwo! });
     await page.locator('input[name="reason"]').fill("tear-out on the face");
     await page.getByRole("button", { name: "Record and cut again later" }).click();
     await page.getByText("tear-out on the face").waitFor();
@@ -75,6 +81,7 @@ describe("the sawyer on a tablet beside the saw", () => {
     expect(racked.location).toBe("Rack C, slot 2");
     const recuts = await db.select().from(t.recutParts).where(and(eq(t.recutParts.spoiledInBatchId, batchId)));
     expect(recuts).toHaveLength(1);
+    expect(recuts[0].origin).toMatchObject({ text: "Table 2", itemIndex: 1 });
     const [{ onHand: after }] = await db.select().from(t.stockPanels).where(eq(t.stockPanels.id, s.sheet6.id));
     expect(after).toBe(before); // the sheet left the count when the batch was released
     expect(after).toBe(2);

@@ -7,7 +7,7 @@ import { batchScenario } from "../support/batch-factories";
 import { createShop, signIn } from "../support/factories";
 import { getDb } from "~/db.server";
 import { startPlanRunner, stopPlanRunner } from "~/jobs/plan-runner.server";
-import { mergeBatchParts } from "~/lib/batch-parts";
+import { itemsOf, mergeBatchParts } from "~/lib/batch-parts";
 import { batchSources, createBatches, proposeBatches } from "~/models/batches.server";
 import { releasePlan, requestPlan } from "~/models/plans.server";
 
@@ -73,7 +73,19 @@ describe("the floor", () => {
     const noReason = await request(server).post(`/saw/${r.batchId}`).set("Cookie", sawyer).type("form").send({ intent: "spoil", part: numberCard.key, quantity: "1", reason: "" });
     expect(noReason.status).toBe(400);
     expect(noReason.text).toContain("Say what went wrong");
-    const spoiled = await request(server).post(`/saw/${r.batchId}`).set("Cookie", sawyer).type("form").send({ intent: "spoil", part: numberCard.key, quantity: "1", reason: "tear-out on the face" });
+    // The sawyer says whose card it was: the second table card, not merely the row's first piece.
+    const tableTwo = itemsOf(numberCard.origins).find((i) => i.origin.text === "Table 2")!;
+    const spoil = (fields: Record<string, string>) => request(server).post(`/saw/${r.batchId}`).set("Cookie", sawyer).type("form").send({ intent: "spoil", part: numberCard.key, reason: "tear-out on the face", ...fields });
+    const noSuchItem = await spoil({ item: "99", quantity: "1" });
+    expect(noSuchItem.status).toBe(400);
+    expect(visible(noSuchItem.text)).toContain("Which item: choose one of this part"); // the apostrophe comes escaped
+    const tooMany = await spoil({ item: String(tableTwo.first), quantity: "2" });
+    expect(tooMany.status).toBe(400);
+    expect(visible(tooMany.text)).toContain("How many: that item has 1 piece of this part.");
+    const moreThanTheBatch = await spoil({ quantity: String(numberCard.quantity + 1) });
+    expect(visible(moreThanTheBatch.text)).toContain(`How many: this batch has ${numberCard.quantity} of this part.`);
+    expect(await db.select().from(t.recutParts).where(eq(t.recutParts.spoiledInBatchId, r.batchId))).toHaveLength(0);
+    const spoiled = await spoil({ item: String(tableTwo.first), quantity: "1" });
     expect(spoiled.status).toBe(302);
 
     const expected = await db.select().from(t.offcuts).where(and(eq(t.offcuts.sourceBatchId, r.batchId), eq(t.offcuts.status, "expected")));
@@ -102,7 +114,7 @@ describe("the floor", () => {
     expect(six.recuts).toHaveLength(1);
     const [next] = await createBatches(r.shop.id, "2027-01-15", [r.birch6.id]);
     const again = mergeBatchParts(await batchSources(next));
-    expect(again.map((p) => [p.name, p.quantity, p.origins[0].text])).toEqual([["Number card", 1, "Table 1"]]);
+    expect(again.map((p) => [p.name, p.quantity, p.origins[0].text, p.origins[0].itemIndex])).toEqual([["Number card", 1, "Table 2", 1]]);
   });
 
   it("another shop's batch is not at this saw; a bookkeeper has no floor", async () => {

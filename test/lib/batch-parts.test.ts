@@ -1,6 +1,6 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { mergeBatchParts, type BatchSource, type PartOrigin } from "~/lib/batch-parts";
+import { itemsOf, mergeBatchParts, spoiledOrigins, type BatchSource, type PartOrigin } from "~/lib/batch-parts";
 
 function source(overrides: Partial<BatchSource>): BatchSource {
   return {
@@ -144,5 +144,42 @@ describe("mergeBatchParts", () => {
         for (const row of rows) if (!row.grainLocked) expect(row.lengthUm).toBeGreaterThanOrEqual(row.widthUm);
       }),
     );
+  });
+});
+
+describe("spoiled pieces and their items", () => {
+  // Two table cards of one line, two stand legs per card of the same size: one merged row of 4 pieces.
+  const [legs] = mergeBatchParts([
+    source({ lineQuantity: 2, personalisation: ["Table 1", "Table 2"], partName: "Leg", lengthUm: 150_000, widthUm: 80_000, quantityPerItem: 2 }),
+  ]);
+
+  it("lists each item once with its pieces", () => {
+    expect(itemsOf(legs.origins).map((i) => [i.first, i.pieces, i.origin.text])).toEqual([
+      [0, 2, "Table 1"],
+      [2, 2, "Table 2"],
+    ]);
+  });
+
+  it("gives the chosen item's own pieces, and refuses more than it has or an item that is not there", () => {
+    const pick = spoiledOrigins(legs.origins, 2, 2);
+    expect(pick.ok && pick.origins.map((o) => [o?.text, o?.itemIndex])).toEqual([
+      ["Table 2", 1],
+      ["Table 2", 1],
+    ]);
+    expect(spoiledOrigins(legs.origins, 2, 3)).toEqual({ ok: false, field: "quantity", error: "How many: that item has 2 pieces of this part." });
+    expect(spoiledOrigins(legs.origins, 1, 1)).toMatchObject({ ok: false, field: "item" }); // the middle of an item is no item
+    expect(spoiledOrigins(legs.origins, 9, 1)).toMatchObject({ ok: false, field: "item" });
+  });
+
+  it("without a chosen item takes the row's first pieces; a row of no order gives pieces of no order", () => {
+    const pick = spoiledOrigins(legs.origins, null, 3);
+    expect(pick.ok && pick.origins.map((o) => o?.text)).toEqual(["Table 1", "Table 1", "Table 2"]);
+    expect(spoiledOrigins(legs.origins, null, 5)).toEqual({ ok: false, field: "quantity", error: "How many: this batch has 4 of this part." });
+    expect(spoiledOrigins([], null, 2)).toEqual({ ok: true, origins: [null, null] });
+  });
+
+  it("a recut keeps the item number it had on its line", () => {
+    const [recut] = mergeBatchParts([source({ lineQuantity: 1, personalisation: ["Table 7"], firstItemIndex: 6 })]);
+    expect(recut.origins.map((o) => [o.itemIndex, o.text])).toEqual([[6, "Table 7"]]);
   });
 });
