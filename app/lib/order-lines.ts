@@ -125,3 +125,17 @@ export function safeDisplayName(name: string, type: ArtworkType): string {
     .slice(0, 120);
   return `${base || "artwork"}.${ARTWORK_TYPES[type]}`;
 }
+
+/**
+ * New personalisation texts for a line already on an order (a misspelt name): one per item, so as many
+ * as the line has items, or none to clear them.
+ */
+export function checkLineTexts(typed: string, quantity: number): { ok: true; texts: string[] } | { ok: false; error: string } {
+  const texts = parseTypedTexts(typed);
+  const tooLong = texts.find((t) => t.length > 500);
+  if (tooLong) return { ok: false, error: `Texts: one is longer than 500 characters: "${tooLong.slice(0, 40)}…".` };
+  if (texts.length > 0 && texts.length !== quantity) {
+    return { ok: false, error: `Texts: this line has ${quantity} item${quantity === 1 ? "" : "s"} but ${texts.length} text${texts.length === 1 ? "" : "s"} were given; one text per item, or none.` };
+  }
+  return { ok: true, texts };
+}

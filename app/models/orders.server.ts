@@ -1,6 +1,7 @@
 import { and, asc, count, desc, eq, ilike, inArray, or, sql } from "drizzle-orm";
-import { customers, lineFiles, orderLines, orders, products, shops } from "../../db/schema";
+import { batches, batchLines, customers, lineFiles, orderLines, orders, products, shops } from "../../db/schema";
 import { getDb } from "~/db.server";
+import { batchCode } from "~/lib/batches";
 import { likePattern, parseListQuery, type ListQuery } from "~/lib/listing";
 import { canMoveTo, linesEditable, ORDER_STATUSES, type OrderStatus } from "~/lib/order-status";
 
@@ -191,6 +192,29 @@ export async function removeLine(shopId: string, orderId: string, lineId: string
     const files = await tx.select({ key: lineFiles.storageKey }).from(lineFiles).where(and(eq(lineFiles.orderLineId, lineId), eq(lineFiles.shopId, shopId)));
     const removed = await tx.delete(orderLines).where(and(eq(orderLines.id, lineId), eq(orderLines.orderId, order.id))).returning({ id: orderLines.id });
     return removed.length ? files.map((f) => f.key) : null;
+  });
+}
+
+/**
+ * Puts new personalisation texts on a line. Null: no such line on this shop's order. Refused once the
+ * line's batch has gone to the saw: its labels and laser files may already be printed.
+ */
+export async function updateLineTexts(shopId: string, orderId: string, lineId: string, texts: string[]): Promise<boolean | null> {
+  return getDb().transaction(async (tx) => {
+    const order = await lockOrder(tx, shopId, orderId);
+    if (!order) return null;
+    if (!linesEditable(order.status)) throw new OrderStateError("This order is in production; its lines can no longer change.");
+    const [line] = await tx.select({ id: orderLines.id }).from(orderLines).where(and(eq(orderLines.id, lineId), eq(orderLines.orderId, order.id))).for("update");
+    if (!line) return null;
+    const [atSaw] = await tx
+      .select({ number: batches.number })
+      .from(batchLines)
+      .innerJoin(batches, eq(batches.id, batchLines.batchId))
+      .where(and(eq(batchLines.orderLineId, line.id), inArray(batches.status, ["released", "cut", "closed"])))
+      .limit(1);
+    if (atSaw) throw new OrderStateError(`This line is in batch ${batchCode(atSaw.number)}, which has gone to the saw; its texts no longer change.`);
+    await tx.update(orderLines).set({ personalisation: texts }).where(eq(orderLines.id, line.id));
+    return true;
   });
 }
 

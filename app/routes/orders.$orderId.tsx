@@ -9,14 +9,14 @@ import { StatusBadge } from "~/components/status-badge";
 import { formatDate } from "~/lib/dates";
 import { parseForm } from "~/lib/forms";
 import { formatMoney } from "~/lib/money";
-import { checkLines, rawLinesFrom } from "~/lib/order-lines";
+import { checkLines, checkLineTexts, rawLinesFrom } from "~/lib/order-lines";
 import { OrderHeaderSchema } from "~/lib/order-schema";
 import { linesEditable, nextStatuses, ORDER_STATUSES, STATUS_LABELS } from "~/lib/order-status";
 import { can } from "~/lib/permissions";
 import { sendConfirmation } from "~/models/confirmation.server";
 import { customerChoices } from "~/models/customers.server";
 import { readOrderForm, withStoredArtwork } from "~/models/order-input.server";
-import { addLines, getOrder, moveOrder, OrderStateError, productChoices, removeLine, updateHeader } from "~/models/orders.server";
+import { addLines, getOrder, moveOrder, OrderStateError, productChoices, removeLine, updateHeader, updateLineTexts } from "~/models/orders.server";
 import { orderMaterialCost } from "~/models/ledger.server";
 import { getShop } from "~/models/shops.server";
 import { deleteStoredFiles } from "~/storage.server";
@@ -43,6 +43,7 @@ const ActionSchema = v.variant("intent", [
   v.object({ intent: v.literal("add-lines") }),
   v.object({ intent: v.literal("remove-line"), lineId: Uuid }),
   v.object({ intent: v.literal("header") }),
+  v.object({ intent: v.literal("line-texts"), lineId: Uuid, texts: v.optional(v.string(), "") }),
 ], "Unknown action.");
 
 export async function action(args: Route.ActionArgs) {
@@ -85,6 +86,15 @@ export async function action(args: Route.ActionArgs) {
         const keys = await removeLine(user.shopId, orderId, input.lineId);
         if (keys === null) throw notFound();
         await deleteStoredFiles(keys);
+        break;
+      }
+      case "line-texts": {
+        const line = (await getOrder(user.shopId, orderId))?.lines.find((l) => l.id === input.lineId);
+        if (!line) throw notFound();
+        const texts = checkLineTexts(input.texts, line.quantity);
+        const field = `texts-${line.id}`;
+        if (!texts.ok) return data({ errors: { [field]: texts.error } as Record<string, string>, values: fields, intent: field }, { status: 400 });
+        if ((await updateLineTexts(user.shopId, orderId, line.id, texts.texts)) === null) throw notFound();
         break;
       }
       case "header": {
@@ -196,6 +206,7 @@ export default function OrderPage({ loaderData, actionData }: Route.ComponentPro
                   </ol>
                 </details>
               )}
+              {editable && <LineTextsForm line={line} error={errors[`texts-${line.id}`]} typed={actionData?.intent === `texts-${line.id}` ? actionData.values.texts : undefined} />}
               {line.notes && <p className="text-sm text-muted">{line.notes}</p>}
               {line.files.length > 0 && (
                 <ul className="flex flex-wrap gap-2 text-sm">
@@ -259,5 +270,37 @@ export default function OrderPage({ loaderData, actionData }: Route.ComponentPro
         </Link>
       </p>
     </div>
+  );
+}
+
+/** A misspelt name is put right here; the texts stay one per item, in order. */
+function LineTextsForm({ line, error, typed }: { line: { id: string; quantity: number; personalisation: string[] }; error?: string; typed?: unknown }) {
+  const id = `texts-${line.id}`;
+  return (
+    <details open={Boolean(error)}>
+      <summary className="cursor-pointer text-sm font-medium text-edge">{line.personalisation.length ? "Correct the texts" : "Add texts"}</summary>
+      <Form method="post" encType="multipart/form-data" className="mt-2 space-y-2" noValidate>
+        <input type="hidden" name="intent" value="line-texts" />
+        <input type="hidden" name="lineId" value={line.id} />
+        <label htmlFor={id} className="block text-sm font-medium">
+          One text per item, {line.quantity} in all, in order
+        </label>
+        <textarea
+          id={id}
+          name="texts"
+          rows={Math.min(10, Math.max(3, line.quantity))}
+          defaultValue={typeof typed === "string" ? typed : line.personalisation.join("\n")}
+          aria-invalid={error ? true : undefined}
+          aria-describedby={error ? `${id}-error` : undefined}
+          className={`block w-full rounded-md border bg-white px-3 py-2 text-base ${error ? "border-bad" : "border-line"}`}
+        />
+        {error && (
+          <p id={`${id}-error`} className="text-sm text-bad">
+            {error}
+          </p>
+        )}
+        <SubmitButton pendingText="Saving…">Save texts</SubmitButton>
+      </Form>
+    </details>
   );
 }

@@ -65,6 +65,16 @@ describe("the owner takes the wedding order in chromium", () => {
     expect(mail.subject).toMatch(/^Your order #\d+ with .* is confirmed$/);
     expect(mail.text).toContain("120 × Place card");
     expect(mail.text).toMatch(/Total\s+€418\.00/);
+
+    // The couple asks for a name for table 7: the text is corrected on the line, the count kept.
+    const tables = page.locator("li[data-line-id]", { hasText: "18 × Table number" });
+    await tables.getByText("Correct the texts").click();
+    const box = tables.getByLabel("One text per item, 18 in all, in order");
+    await box.fill((await box.inputValue()).replace("Table 7", "The Lighthouse"));
+    await tables.getByRole("button", { name: "Save texts" }).click();
+    await tables.getByText(/18 personalisation texts: Table 1, Table 2, Table 3/).waitFor();
+    await tables.getByText("18 personalisation texts").click();
+    await tables.locator("ol > li", { hasText: "The Lighthouse" }).waitFor();
     expect(errors).toEqual([]);
   });
 });

@@ -19,7 +19,7 @@ beforeAll(async () => {
   ids = { order: s.wedding.id, batch: batchId, customer: s.wedding.id };
 });
 
-const INTENTS = ["invite", "role", "remove", "revoke", "move", "resend", "add-lines", "remove-line", "header", "create", "unhold", "move-line", "hold-line", "run-plan", "cancel-plan", "release", "spoil", "close", "add", "discard", "material", "panel", "delete", ""];
+const INTENTS = ["invite", "role", "remove", "revoke", "move", "resend", "add-lines", "remove-line", "line-texts", "header", "create", "unhold", "move-line", "hold-line", "run-plan", "cancel-plan", "release", "spoil", "close", "add", "discard", "material", "panel", "delete", ""];
 const FIELDS = ["intent", "email", "role", "memberId", "invitationId", "to", "lineId", "customerId", "eventDate", "dueDate", "notes", "name", "phone", "kerfMm", "trimMm", "seconds", "stages", "objective", "planId", "targetBatchId", "dueBy", "materialId", "length", "width", "location", "grain", "offcutId", "part", "quantity", "reason", "line-0-product", "line-0-quantity", "line-0-texts", "line-0-csvHeader", "line-0-followRows", "setupIndex", "countCut", "parts", "price", "leadTimeDays", "unit", "currency"];
 
 const nasty = fc.oneof(

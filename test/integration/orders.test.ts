@@ -3,7 +3,7 @@ import { readdirSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import request from "supertest";
 import { beforeAll, describe, expect, it } from "vitest";
-import { customers, lineFiles, orderLines, orders } from "../../db/schema";
+import { batches, batchLines, customers, lineFiles, materials, orderLines, orders } from "../../db/schema";
 import { appServer, visible } from "../support/app";
 import { createShop, signIn, type TestShop } from "../support/factories";
 import { createCatalogue } from "../support/order-factories";
@@ -341,6 +341,38 @@ describe("editing lines", () => {
     const removed = await request(server).post(`/orders/${order.id}`).set("Cookie", owner).field("intent", "remove-line").field("lineId", line.id);
     expect(removed.status).toBe(302);
     expect(uploadedFiles().length).toBe(before);
+  });
+});
+
+describe("correcting personalisation texts", () => {
+  it("puts right a misspelt name on a line, one text per item, refusing a wrong count and a line whose batch is at the saw", async () => {
+    const order = await createOrder(shop.id, { customerId: catalogue.customer.id, eventDate: "2027-03-01", dueDate: "2027-02-20", notes: "" }, [
+      { productId: catalogue.tableNumber.id, quantity: 3, personalisation: ["Table 1", "Tabel 2", "Table 3"], notes: "", files: [] },
+    ]);
+    const [line] = await getDb().select().from(orderLines).where(eq(orderLines.orderId, order.id));
+    const texts = (value: string, cookie = owner) => request(server).post(`/orders/${order.id}`).set("Cookie", cookie).field("intent", "line-texts").field("lineId", line.id).field("texts", value);
+    const stored = async () => (await getDb().select().from(orderLines).where(eq(orderLines.id, line.id)))[0].personalisation;
+
+    const page = await request(server).get(`/orders/${order.id}`).set("Cookie", owner);
+    expect(visible(page.text)).toContain("Correct the texts");
+    const short = await texts("Table 1\nTable 2");
+    expect(short.status).toBe(400);
+    expect(visible(short.text)).toContain("Texts: this line has 3 items but 2 texts were given; one text per item, or none.");
+    expect(visible(short.text)).toContain("Table 1\nTable 2"); // what was typed stays in the box
+    expect(await stored()).toEqual(["Table 1", "Tabel 2", "Table 3"]);
+    expect((await texts("Table 1\nTable 2\nTable 3", await signIn(server, shop.users.sawyer))).status).toBe(403);
+
+    expect((await texts(" Table 1 \r\nTable 2\n\nTable 3\n")).status).toBe(302);
+    expect(await stored()).toEqual(["Table 1", "Table 2", "Table 3"]);
+
+    // Once the line's batch is at the saw, its labels may be printed: the texts stay as they are.
+    const [birch] = await getDb().select().from(materials).where(eq(materials.shopId, shop.id));
+    const [batch] = await getDb().insert(batches).values({ shopId: shop.id, number: 9001, materialId: birch.id, dueBy: "2027-02-20", status: "released" }).returning();
+    await getDb().insert(batchLines).values({ batchId: batch.id, orderLineId: line.id, materialId: birch.id });
+    const late = await texts("Table One\nTable Two\nTable Three");
+    expect(late.status).toBe(409);
+    expect(visible(late.text)).toContain("This line is in batch B-9001, which has gone to the saw; its texts no longer change.");
+    expect(await stored()).toEqual(["Table 1", "Table 2", "Table 3"]);
   });
 });
 
