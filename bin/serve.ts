@@ -9,13 +9,14 @@ const root = fileURLToPath(new URL("..", import.meta.url));
 const port = Number(process.env.PORT ?? 3000);
 const host = process.env.HOST ?? "127.0.0.1";
 
-const build = await import(/* @vite-ignore */ `${root}build/server/index.js`);
+const buildDir = `${root}${process.env.STOPWISE_BUILD_DIR || "build"}`; // as in react-router.config.ts
+const build = await import(/* @vite-ignore */ `${buildDir}/server/index.js`);
 
 const app = express();
 app.disable("x-powered-by");
 app.use(compression());
-app.use("/assets", express.static(`${root}build/client/assets`, { immutable: true, maxAge: "1y" }));
-app.use(express.static(`${root}build/client`, { maxAge: "1h", index: false }));
+app.use("/assets", express.static(`${buildDir}/client/assets`, { immutable: true, maxAge: "1y" }));
+app.use(express.static(`${buildDir}/client`, { maxAge: "1h", index: false }));
 // The app reads the client's address from this header for rate limits; whatever a client sent is replaced.
 app.use((req, _res, next) => {
   req.headers["x-stopwise-client-address"] = req.socket.remoteAddress ?? "unknown";
