@@ -59,12 +59,20 @@ async function loadUser(userId: string): Promise<SignedInUser | null> {
 const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
 
 /**
+ * Paths a server, not a browser, posts to: the payment service's webhook. Its Stripe-Signature over
+ * the raw body authenticates it (app/routes/webhooks.payments.ts), it reads no session, and it is
+ * exempt from the cross-site check whatever headers the sender adds. Only exact paths go here.
+ */
+export const CROSS_SITE_EXEMPT_PATHS: ReadonlySet<string> = new Set(["/webhooks/payments"]);
+
+/**
  * Refuses a state-changing request that a browser says came from another site (OWASP ASVS 4.0.3
  * V4.2.2, V13.2.3): a foreign Origin, or Sec-Fetch-Site other than same-origin / none. Clients that
  * send neither (scripts, webhooks) carry no browser cookies to abuse and pass.
  */
 export function isCrossSite(request: Request): boolean {
   if (SAFE_METHODS.has(request.method)) return false;
+  if (CROSS_SITE_EXEMPT_PATHS.has(new URL(request.url).pathname)) return false;
   const fetchSite = request.headers.get("Sec-Fetch-Site");
   if (fetchSite && fetchSite !== "same-origin" && fetchSite !== "none") return true;
   const origin = request.headers.get("Origin");

@@ -35,6 +35,10 @@ export const orderStatusEnum = pgEnum("order_status", [
 export const offcutStatusEnum = pgEnum("offcut_status", ["expected", "racked", "reserved", "used", "discarded"]);
 export const batchStatusEnum = pgEnum("batch_status", ["open", "planned", "released", "cut", "closed"]);
 export const planStatusEnum = pgEnum("plan_status", ["queued", "running", "done", "failed", "cancelled"]);
+export const depositRuleEnum = pgEnum("deposit_rule", ["none", "percent", "fixed"]);
+// requested: the link is out; refund_pending: the payment service took the refund but has not settled it.
+export const depositStatusEnum = pgEnum("deposit_status", ["requested", "paid", "refund_pending", "refunded"]);
+export const depositMoveEnum = pgEnum("deposit_move", ["payment", "refund"]);
 
 export const shops = pgTable("shops", {
   id: uuid("id").primaryKey().defaultRandom(),
@@ -54,6 +58,10 @@ export const shops = pgTable("shops", {
   stopMaxUm: integer("stop_max_um").notNull().default(1200000),
   // Largest sled squareness error accepted, micrometres per metre of crosscut (0.15 mm/m: a common shop target).
   sledToleranceUmPerM: integer("sled_tolerance_um_per_m").notNull().default(150),
+  // The deposit asked when an order is confirmed: a whole percentage of the order total, or a fixed amount.
+  depositRule: depositRuleEnum("deposit_rule").notNull().default("none"),
+  depositPercent: integer("deposit_percent"),
+  depositFixedMinor: integer("deposit_fixed_minor"),
   createdAt: createdAt(),
 });
 
@@ -540,4 +548,56 @@ export const batchCosts = pgTable(
     allocations: jsonb("allocations").$type<OrderAllocation[]>().notNull(),
   },
   (t) => [index("batch_costs_shop_cut_idx").on(t.shopId, t.cutAt)],
+);
+
+// A deposit asked of an order's customer. The e-mailed link carries `linkToken`; following it opens a
+// Checkout Session at the payment service (a fresh one when the last has expired).
+export const deposits = pgTable(
+  "deposits",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    shopId: uuid("shop_id")
+      .notNull()
+      .references(() => shops.id, { onDelete: "cascade" }),
+    orderId: uuid("order_id")
+      .notNull()
+      .references(() => orders.id, { onDelete: "cascade" }),
+    amountMinor: integer("amount_minor").notNull(),
+    currency: text("currency").notNull(),
+    status: depositStatusEnum("status").notNull().default("requested"),
+    linkToken: text("link_token").notNull().unique(),
+    checkoutSessionId: text("checkout_session_id").unique(),
+    paymentIntentId: text("payment_intent_id"),
+    requestedAt: timestamp("requested_at", { withTimezone: true, mode: "date" }).notNull().defaultNow(),
+    paidAt: timestamp("paid_at", { withTimezone: true, mode: "date" }),
+    refundedAt: timestamp("refunded_at", { withTimezone: true, mode: "date" }),
+  },
+  (t) => [index("deposits_shop_order_idx").on(t.shopId, t.orderId), index("deposits_payment_intent_idx").on(t.paymentIntentId)],
+);
+
+// Money that moved for a deposit, exactly as the payment service reported it (minor units, always
+// positive; `kind` says which way). The same webhook event never records twice (event_id), nor the
+// same payment or refund under another event (kind + provider_ref).
+export const depositMoves = pgTable(
+  "deposit_moves",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    shopId: uuid("shop_id")
+      .notNull()
+      .references(() => shops.id, { onDelete: "cascade" }),
+    depositId: uuid("deposit_id")
+      .notNull()
+      .references(() => deposits.id, { onDelete: "cascade" }),
+    kind: depositMoveEnum("kind").notNull(),
+    amountMinor: integer("amount_minor").notNull(),
+    currency: text("currency").notNull(),
+    // The webhook event that reported it; null for a refund recorded from the API's own answer.
+    eventId: text("event_id").unique(),
+    // The payment intent (payments) or refund (refunds) at the payment service.
+    providerRef: text("provider_ref").notNull(),
+    occurredAt: timestamp("occurred_at", { withTimezone: true, mode: "date" }).notNull(),
+    recordedBy: text("recorded_by").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("deposit_moves_kind_ref_key").on(t.kind, t.providerRef), index("deposit_moves_shop_time_idx").on(t.shopId, t.occurredAt), index("deposit_moves_deposit_idx").on(t.depositId)],
 );

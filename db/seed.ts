@@ -1,5 +1,6 @@
 // The demo scenario of DESIGN.md: "Tallowmere Sign & Keepsake", a three-person shop.
 // Every name and figure here is invented for the demo.
+import { randomBytes } from "node:crypto";
 import { count, eq, sql } from "drizzle-orm";
 import { generateIdFromEntropySize } from "lucia";
 import type { Database } from "../app/db.server";
@@ -41,7 +42,7 @@ export async function seedDemo(db: Database, today = new Date()): Promise<void> 
   await db.transaction(async (tx) => {
     const [shop] = await tx
       .insert(t.shops)
-      .values({ name: "Tallowmere Sign & Keepsake", currency: "GBP", displayUnit: "mm" })
+      .values({ name: "Tallowmere Sign & Keepsake", currency: "GBP", displayUnit: "mm", depositRule: "percent", depositPercent: 30 })
       .returning();
 
     await tx.insert(t.users).values(
@@ -137,6 +138,10 @@ export async function seedDemo(db: Database, today = new Date()): Promise<void> 
       { orderId: cafe.id, productId: menuBoard.id, quantity: 4, unitPriceMinor: menuBoard.priceMinor, personalisation: ["Breakfast", "Lunch", "Coffee", "Cakes"] },
     ]);
 
+    // Deposits at 30 %: the wedding paid its £125.40 (of £418.00) on the payment link; the nursery's is asked.
+    await demoDeposit(tx, { shopId: shop.id, orderId: wedding.id, amountMinor: 12_540, tag: "wedding", requestedAt: today, paidAt: today });
+    await demoDeposit(tx, { shopId: shop.id, orderId: nursery.id, amountMinor: 2_220, tag: "nursery", requestedAt: today, paidAt: null });
+
     // The saw station: one saw with a measured kerf, one sled squared a week ago (0.05 mm over 400 mm: 0.031 mm/m).
     const [sawRow] = await tx.insert(t.saws).values({ shopId: shop.id, name: "Cabinet saw", blade: "250 mm, 3.2 mm full kerf" }).returning();
     await tx.insert(t.kerfMeasurements).values({ shopId: shop.id, sawId: sawRow.id, kerfUm: mm(3.2), note: "test cut in 18 mm birch", measuredAt: new Date(today.getTime() - 7 * 86_400_000) });
@@ -181,6 +186,9 @@ export async function seedDemoHistory(db: Database, today = new Date()): Promise
         { orderId: shopSigns.id, productId: menu.id, quantity: 6, unitPriceMinor: menu.priceMinor, personalisation: [] },
       ])
       .returning();
+    // Both paid their 30 % deposit two days after confirming.
+    await demoDeposit(tx, { shopId: shop.id, orderId: christening.id, amountMinor: 11_520, tag: "christening", requestedAt: lastMonth(2), paidAt: lastMonth(4) });
+    await demoDeposit(tx, { shopId: shop.id, orderId: shopSigns.id, amountMinor: 7_560, tag: "quince", requestedAt: lastMonth(3), paidAt: lastMonth(5) });
     const sheet = { lengthUm: mm(2440), widthUm: mm(1220) };
     const [{ last }] = await tx.select({ last: sql<number>`coalesce(max(${t.batches.number}), 0)` }).from(t.batches).where(eq(t.batches.shopId, shop.id));
     const books = [
@@ -209,6 +217,21 @@ export async function seedDemoHistory(db: Database, today = new Date()): Promise
       });
     }
   });
+}
+
+type Tx = Parameters<Parameters<Database["transaction"]>[0]>[0];
+
+/** A demo deposit in GBP, paid (with its recorded payment) or only asked; the service's ids are invented. */
+async function demoDeposit(tx: Tx, d: { shopId: string; orderId: string; amountMinor: number; tag: string; requestedAt: Date; paidAt: Date | null }) {
+  const paymentIntentId = d.paidAt ? `pi_demo_${d.tag}` : null;
+  const requestedAt = d.requestedAt;
+  const [deposit] = await tx
+    .insert(t.deposits)
+    .values({ shopId: d.shopId, orderId: d.orderId, amountMinor: d.amountMinor, currency: "GBP", status: d.paidAt ? "paid" : "requested", linkToken: randomBytes(24).toString("base64url"), paymentIntentId, requestedAt, paidAt: d.paidAt })
+    .returning();
+  if (d.paidAt && paymentIntentId) {
+    await tx.insert(t.depositMoves).values({ shopId: d.shopId, depositId: deposit.id, kind: "payment", amountMinor: d.amountMinor, currency: "GBP", eventId: `evt_demo_${d.tag}`, providerRef: paymentIntentId, occurredAt: d.paidAt });
+  }
 }
 
 /** A second, smaller shop, so that each shop seeing only its own data can be tried. */

@@ -67,6 +67,13 @@ export const AREAS: Area[] = [
     summary: "What each batch cost and what became scrap or a reusable offcut.",
   },
   {
+    path: "/ledger/deposits",
+    permission: "deposits:read",
+    label: "Deposits",
+    forWhom: "Bookkeeper",
+    summary: "Deposits asked, paid and refunded per order and per month, and the balances due.",
+  },
+  {
     path: "/team",
     permission: "team:manage",
     label: "Team",

@@ -38,6 +38,7 @@ export function orderConfirmationEmail(input: {
   dueDate: string;
   lines: { name: string; quantity: number; total: string }[];
   total: string;
+  deposit?: { amount: string; link: string };
 }) {
   const width = Math.max(...input.lines.map((l) => `${l.quantity} × ${l.name}`.length), 10);
   return {
@@ -53,6 +54,9 @@ export function orderConfirmationEmail(input: {
       `Event date: ${input.eventDate}`,
       `Ready by:   ${input.dueDate}`,
       "",
+      ...(input.deposit
+        ? [`To start work we ask a deposit of ${input.deposit.amount}. Pay it securely here:`, input.deposit.link, "The balance is due before delivery.", ""]
+        : []),
       "Reply to this e-mail if anything needs to change.",
     ].join("\n"),
   };
@@ -69,6 +73,20 @@ export function releaseEmail(input: { name: string; code: string; material: stri
       input.link,
       "",
       "Work to the saw maker's manual and the shop's own rules: guard and riving knife on, push sticks ready.",
+    ].join("\n"),
+  };
+}
+
+export function depositRequestEmail(input: { shopName: string; customerName: string; orderNumber: number; amount: string; total: string; link: string }) {
+  return {
+    subject: `Deposit for your order #${input.orderNumber} with ${input.shopName}`,
+    text: [
+      `Dear ${input.customerName},`,
+      "",
+      `${input.shopName} asks a deposit of ${input.amount} towards your order #${input.orderNumber} (total ${input.total}). Pay it securely here:`,
+      input.link,
+      "",
+      "The balance is due before delivery. Reply to this e-mail with any question.",
     ].join("\n"),
   };
 }

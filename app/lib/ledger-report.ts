@@ -5,13 +5,13 @@ import { formatArea } from "./ledger";
 
 export type Period = { from: string; to: string; label: string };
 
-/** ?month=2026-11 or ?from=2026-11-01&to=2026-11-30 (inclusive); default: the month before `today`. */
-export function parsePeriod(params: URLSearchParams, today: string): Period {
+/** ?month=2026-11 or ?from=2026-11-01&to=2026-11-30 (inclusive); default: the month before `today` (or its own month). */
+export function parsePeriod(params: URLSearchParams, today: string, fallback: "previous" | "current" = "previous"): Period {
   const month = params.get("month");
   const from = params.get("from");
   const to = params.get("to");
   if (from && to && isIsoDate(from) && isIsoDate(to) && from <= to) return { from, to: addDays(to, 1), label: `${from} to ${to}` };
-  const chosen = month && /^\d{4}-(0[1-9]|1[0-2])$/.test(month) ? month : previousMonth(today);
+  const chosen = month && /^\d{4}-(0[1-9]|1[0-2])$/.test(month) ? month : fallback === "current" ? today.slice(0, 7) : previousMonth(today);
   const [y, m] = chosen.split("-").map(Number);
   const next = m === 12 ? `${y + 1}-01` : `${y}-${String(m + 1).padStart(2, "0")}`;
   return { from: `${chosen}-01`, to: `${next}-01`, label: chosen };
@@ -79,6 +79,11 @@ function decimal(minor: number, digits: number): string {
 
 const areaNumber = (mm2: number, unit: "mm" | "in") => formatArea(mm2, unit).split(" ")[0];
 
+/** A text cell that never runs as a spreadsheet formula (OWASP ASVS 5.0 V1.2.10): formula triggers get a leading quote. */
+export function spreadsheetSafe(text: string): string {
+  return /^[=+\-@\t\r]/.test(text) ? `'${text}` : text;
+}
+
 /** The period's batch rows as CSV; the first lines state the currency and the area unit. */
 export function ledgerCsv(rows: (Row & { batchCode: string; cutAt: string })[], period: Period, currency: string, unit: "mm" | "in", digits = 2): string {
   const areaUnit = unit === "mm" ? "m2" : "ft2";
@@ -88,7 +93,7 @@ export function ledgerCsv(rows: (Row & { batchCode: string; cutAt: string })[], 
       r.batchCode,
       r.cutAt.slice(0, 10),
       // Formula triggers are defused (OWASP ASVS 5.0 V1.2.10): a name never runs as a spreadsheet formula.
-      /^[=+\-@\t\r]/.test(r.materialName) ? `'${r.materialName}` : r.materialName,
+      spreadsheetSafe(r.materialName),
       areaNumber(r.stockAreaMm2, unit),
       areaNumber(r.partsAreaMm2, unit),
       areaNumber(r.kerfLossMm2, unit),

@@ -29,6 +29,8 @@ export const PERMISSIONS = {
   "sleds:read": ["owner", "planner", "sawyer"],
   "sleds:write": ["owner", "sawyer"],
   "ledger:read": ["owner", "bookkeeper"],
+  "deposits:read": ["owner", "bookkeeper"],
+  "deposits:refund": OWNER,
   "team:manage": OWNER,
   "settings:read": ["owner", "planner"],
   "settings:write": OWNER,

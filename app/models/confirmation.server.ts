@@ -1,13 +1,22 @@
-import { orderConfirmationEmail } from "~/lib/emails";
+import { depositRequestEmail, orderConfirmationEmail } from "~/lib/emails";
 import { formatDate } from "~/lib/dates";
 import { formatMoney } from "~/lib/money";
 import { sendMail } from "~/mail.server";
+import { orderDeposit } from "./deposits.server";
 import { getOrder, recordConfirmation } from "./orders.server";
 import { getShop } from "./shops.server";
 
-/** Sends the confirmation e-mail and records the outcome; a failure is kept on the order to show and retry. */
-export async function sendConfirmation(shopId: string, orderId: string): Promise<{ sent: true } | { sent: false; error: string }> {
-  const [order, shop] = await Promise.all([getOrder(shopId, orderId), getShop(shopId)]);
+/** The customer's payment link of a deposit (`origin` is where the shop's site is reached). */
+export function depositLink(origin: string, linkToken: string): string {
+  return `${origin}/pay/${linkToken}`;
+}
+
+/**
+ * Sends the confirmation e-mail and records the outcome; a failure is kept on the order to show and
+ * retry. A deposit asked and not yet paid puts its payment link in the e-mail.
+ */
+export async function sendConfirmation(shopId: string, orderId: string, origin: string): Promise<{ sent: true } | { sent: false; error: string }> {
+  const [order, shop, deposit] = await Promise.all([getOrder(shopId, orderId), getShop(shopId), orderDeposit(shopId, orderId)]);
   if (!order) return { sent: false, error: "The order is gone." };
   if (!order.customerEmail) {
     const error = "The customer has no e-mail address; add one to the customer and send again.";
@@ -22,6 +31,7 @@ export async function sendConfirmation(shopId: string, orderId: string): Promise
     dueDate: formatDate(order.dueDate),
     lines: order.lines.map((l) => ({ name: l.productName, quantity: l.quantity, total: formatMoney(l.quantity * l.unitPriceMinor, shop.currency) })),
     total: formatMoney(order.totalMinor, shop.currency),
+    deposit: deposit?.status === "requested" ? { amount: formatMoney(deposit.amountMinor, deposit.currency), link: depositLink(origin, deposit.linkToken) } : undefined,
   });
   try {
     await sendMail({ to: order.customerEmail, ...mail });
@@ -32,4 +42,22 @@ export async function sendConfirmation(shopId: string, orderId: string): Promise
     await recordConfirmation(order.id, { error });
     return { sent: false, error };
   }
+}
+
+/** E-mails the payment link of a deposit asked after the order was confirmed. */
+export async function sendDepositRequest(shopId: string, orderId: string, origin: string): Promise<void> {
+  const [order, shop, deposit] = await Promise.all([getOrder(shopId, orderId), getShop(shopId), orderDeposit(shopId, orderId)]);
+  if (!order || !deposit || deposit.status !== "requested") return;
+  if (!order.customerEmail) throw new Error("The customer has no e-mail address; add one to the customer first.");
+  await sendMail({
+    to: order.customerEmail,
+    ...depositRequestEmail({
+      shopName: shop.name,
+      customerName: order.customerName,
+      orderNumber: order.number,
+      amount: formatMoney(deposit.amountMinor, deposit.currency),
+      total: formatMoney(order.totalMinor, shop.currency),
+      link: depositLink(origin, deposit.linkToken),
+    }),
+  });
 }

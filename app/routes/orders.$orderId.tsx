@@ -1,7 +1,8 @@
 import * as v from "valibot";
 import { data, Form, Link, redirect } from "react-router";
 import type { Route } from "./+types/orders.$orderId";
-import { requirePermission } from "~/auth.server";
+import { hasPermission, requirePermission } from "~/auth.server";
+import { DepositPanel } from "~/components/deposit-panel";
 import { Field, FormAlert, SelectField, SubmitButton } from "~/components/forms";
 import { OrderLineFields } from "~/components/order-line-fields";
 import { PageHeader } from "~/components/page-header";
@@ -13,7 +14,11 @@ import { checkLines, checkLineTexts, rawLinesFrom } from "~/lib/order-lines";
 import { OrderHeaderSchema } from "~/lib/order-schema";
 import { linesEditable, nextStatuses, ORDER_STATUSES, STATUS_LABELS } from "~/lib/order-status";
 import { can } from "~/lib/permissions";
-import { sendConfirmation } from "~/models/confirmation.server";
+import { balanceOf } from "~/lib/deposits";
+import { depositLink, sendConfirmation, sendDepositRequest } from "~/models/confirmation.server";
+import { DepositError, openDeposit, orderDeposit, orderMoves, proposedDeposit, refundDeposit } from "~/models/deposits.server";
+import { publicOrigin } from "~/mail.server";
+import { paymentErrorMessage, paymentsConfigured } from "~/payments.server";
 import { customerChoices } from "~/models/customers.server";
 import { readOrderForm, withStoredArtwork } from "~/models/order-input.server";
 import { addLines, getOrder, moveOrder, OrderStateError, productChoices, removeLine, updateHeader, updateLineTexts } from "~/models/orders.server";
@@ -28,17 +33,38 @@ export async function loader(args: Route.LoaderArgs) {
   const order = v.is(Uuid, args.params.orderId) ? await getOrder(user.shopId, args.params.orderId) : null;
   if (!order) throw data("No such order in this shop.", { status: 404 });
   const canWrite = can(user.role, "orders:write");
-  const [shop, products, customers, materialCost] = await Promise.all([
+  const seesDeposits = can(user.role, "deposits:read");
+  const [shop, products, customers, materialCost, deposit, moves, proposed] = await Promise.all([
     getShop(user.shopId),
     canWrite ? productChoices(user.shopId) : [],
     canWrite ? customerChoices(user.shopId) : [],
     can(user.role, "ledger:read") ? orderMaterialCost(user.shopId, order.id) : null,
+    seesDeposits ? orderDeposit(user.shopId, order.id) : null,
+    seesDeposits ? orderMoves(user.shopId, order.id) : [],
+    canWrite && paymentsConfigured() ? proposedDeposit(user.shopId, order.id) : null,
   ]);
-  return { order, currency: shop.currency, canWrite, products, customers, materialCost };
+  const depositView = seesDeposits
+    ? {
+        deposit: deposit && {
+          status: deposit.status,
+          amountMinor: deposit.amountMinor,
+          requestedAt: deposit.requestedAt.toISOString(),
+          paidAt: deposit.paidAt?.toISOString() ?? null,
+          refundedAt: deposit.refundedAt?.toISOString() ?? null,
+          link: canWrite ? depositLink(publicOrigin(args.request), deposit.linkToken) : null,
+        },
+        ...balanceOf(order.totalMinor, moves),
+        proposedMinor: proposed,
+        canRefund: hasPermission(user.role, "deposits:refund"),
+      }
+    : null;
+  return { order, currency: shop.currency, canWrite, products, customers, materialCost, deposits: depositView };
 }
 
 const ActionSchema = v.variant("intent", [
-  v.object({ intent: v.literal("move"), to: v.picklist(ORDER_STATUSES, "Unknown status.") }),
+  v.object({ intent: v.literal("move"), to: v.picklist(ORDER_STATUSES, "Unknown status."), deposit: v.optional(v.picklist(["yes", "no"])) }),
+  v.object({ intent: v.literal("request-deposit") }),
+  v.object({ intent: v.literal("refund-deposit") }),
   v.object({ intent: v.literal("resend") }),
   v.object({ intent: v.literal("add-lines") }),
   v.object({ intent: v.literal("remove-line"), lineId: Uuid }),
@@ -62,7 +88,11 @@ export async function action(args: Route.ActionArgs) {
       case "move": {
         const before = await moveOrder(user.shopId, orderId, input.to);
         if (before === null) throw notFound();
-        if (input.to === "confirmed") await sendConfirmation(user.shopId, orderId);
+        if (input.to === "confirmed") {
+          // The deposit is asked before the e-mail goes, so its link is in it.
+          if (input.deposit === "yes" && paymentsConfigured()) await openDeposit(user.shopId, orderId);
+          await sendConfirmation(user.shopId, orderId, publicOrigin(args.request));
+        }
         break;
       }
       case "resend": {
@@ -70,7 +100,29 @@ export async function action(args: Route.ActionArgs) {
         if (!order) throw notFound();
         if (order.status === "draft" || order.status === "cancelled") return fail("Only a confirmed order has a confirmation to send.");
         if (order.confirmationSentAt) return fail("The confirmation was already sent.");
-        await sendConfirmation(user.shopId, orderId);
+        await sendConfirmation(user.shopId, orderId, publicOrigin(args.request));
+        break;
+      }
+      case "request-deposit": {
+        if (!(await getOrder(user.shopId, orderId))) throw notFound();
+        if (!paymentsConfigured()) return fail("Payments are not set up on this server.");
+        await openDeposit(user.shopId, orderId);
+        try {
+          await sendDepositRequest(user.shopId, orderId, publicOrigin(args.request));
+        } catch (e) {
+          return fail(`The deposit is asked, but the e-mail could not be sent: ${e instanceof Error ? e.message : String(e)} Copy the link below to the customer instead.`);
+        }
+        break;
+      }
+      case "refund-deposit": {
+        requirePermission(args, "deposits:refund");
+        if (!(await getOrder(user.shopId, orderId))) throw notFound();
+        try {
+          await refundDeposit(user.shopId, orderId, user.id);
+        } catch (e) {
+          if (e instanceof DepositError) throw e;
+          return fail(`The payment service did not take the refund: ${paymentErrorMessage(e)}`, 502);
+        }
         break;
       }
       case "add-lines": {
@@ -108,7 +160,7 @@ export async function action(args: Route.ActionArgs) {
       }
     }
   } catch (error) {
-    if (error instanceof OrderStateError) return fail(error.message);
+    if (error instanceof OrderStateError || error instanceof DepositError) return fail(error.message);
     throw error;
   }
   return redirect(`/orders/${orderId}`);
@@ -123,7 +175,7 @@ const MOVE_LABELS: Partial<Record<string, string>> = {
 };
 
 export default function OrderPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { order, currency, canWrite, products, customers, materialCost } = loaderData;
+  const { order, currency, canWrite, products, customers, materialCost, deposits } = loaderData;
   const errors: Record<string, string> = actionData?.errors ?? {};
   const editable = canWrite && linesEditable(order.status);
   return (
@@ -165,12 +217,22 @@ export default function OrderPage({ loaderData, actionData }: Route.ComponentPro
         </div>
       )}
 
+      {deposits && <DepositPanel view={deposits} order={order} currency={currency} canWrite={canWrite} />}
+
       {canWrite && nextStatuses(order.status).length > 0 && (
-        <div className="flex flex-wrap gap-2">
+        <div className="flex flex-wrap items-end gap-2">
           {nextStatuses(order.status).map((to) => (
-            <Form key={to} method="post" encType="multipart/form-data">
+            <Form key={to} method="post" encType="multipart/form-data" className={to === "confirmed" && deposits?.proposedMinor ? "space-y-2" : undefined}>
               <input type="hidden" name="intent" value="move" />
               <input type="hidden" name="to" value={to} />
+              {to === "confirmed" && deposits?.proposedMinor ? (
+                <label className="flex min-h-11 items-center gap-2 text-sm">
+                  <input type="checkbox" name="deposit" value="yes" defaultChecked className="size-5 accent-edge" />
+                  <span>
+                    Ask a deposit of <strong className="tabular-nums">{formatMoney(deposits.proposedMinor, currency)}</strong> with a payment link in the e-mail
+                  </span>
+                </label>
+              ) : null}
               <button type="submit" className={to === "cancelled" ? "min-h-11 rounded-md border border-bad/40 px-4 font-medium text-bad hover:bg-bad-soft" : "min-h-11 rounded-md bg-edge px-4 font-semibold text-white hover:bg-edge-dark"}>
                 {MOVE_LABELS[to] ?? STATUS_LABELS[to]}
               </button>

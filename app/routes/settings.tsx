@@ -4,16 +4,20 @@ import { hasPermission, requirePermission } from "~/auth.server";
 import { Field, FormAlert, SelectField, SubmitButton } from "~/components/forms";
 import { PageHeader } from "~/components/page-header";
 import { parseForm } from "~/lib/forms";
-import { CURRENCIES } from "~/lib/money";
+import { DEPOSIT_RULE_LABELS, DEPOSIT_RULES, depositFormValues, depositRuleSchema, describeRule, type DepositRule } from "~/lib/deposits";
+import { CURRENCIES, isCurrency } from "~/lib/money";
 import { DISPLAY_UNITS, formatArea, formatSetting, formUnit, SETTINGS_GROUPS, settingsFormValues, settingsSchema, type SettingsValues } from "~/lib/shop-settings";
 import { getShop } from "~/models/shops.server";
 import { updateShopSettings } from "~/models/settings.server";
+import { paymentsConfigured } from "~/payments.server";
+
+type Settings = SettingsValues & DepositRule;
 
 export async function loader(args: Route.LoaderArgs) {
   const user = requirePermission(args, "settings:read");
   const shop = await getShop(user.shopId);
-  const settings: SettingsValues = shop;
-  return { settings, canWrite: hasPermission(user.role, "settings:write") };
+  const settings: Settings = shop;
+  return { settings, canWrite: hasPermission(user.role, "settings:write"), paymentsReady: paymentsConfigured() };
 }
 
 export async function action(args: Route.ActionArgs) {
@@ -21,15 +25,21 @@ export async function action(args: Route.ActionArgs) {
   const shop: SettingsValues = await getShop(user.shopId);
   const form = await args.request.formData();
   const parsed = parseForm(settingsSchema(formUnit(form, shop.displayUnit), shop), form);
+  // A fixed deposit is read in the currency chosen on the same form.
+  const chosenCurrency = String(form.get("currency") ?? "");
+  const deposit = parseForm(depositRuleSchema(isCurrency(chosenCurrency) ? chosenCurrency : shop.currency), form);
   const values = Object.fromEntries([...form.keys()].map((k) => [k, String(form.get(k) ?? "")]));
-  if (!parsed.ok) return data({ ok: false as const, errors: parsed.errors, values }, { status: 400 });
+  if (!parsed.ok || !deposit.ok) {
+    const errors = { ...(parsed.ok ? {} : parsed.errors), ...(deposit.ok ? {} : deposit.errors) };
+    return data({ ok: false as const, errors, values }, { status: 400 });
+  }
   const { displayUnit, currency, minOffcutAreaMm2, ...lengths } = parsed.data;
-  await updateShopSettings(user.shopId, { displayUnit, currency, minOffcutAreaMm2, ...lengths });
+  await updateShopSettings(user.shopId, { displayUnit, currency, minOffcutAreaMm2, ...lengths, ...deposit.data });
   return { ok: true as const, errors: {}, values: null };
 }
 
 export default function Settings({ loaderData }: Route.ComponentProps) {
-  const { settings, canWrite } = loaderData;
+  const { settings, canWrite, paymentsReady } = loaderData;
   const actionData = useActionData<typeof action>();
   return (
     <div className="space-y-8">
@@ -38,17 +48,17 @@ export default function Settings({ loaderData }: Route.ComponentProps) {
           ? "Units, money and the limits of the saw and laser that every plan allows for. Type lengths in the shop's unit, or name one (600 mm, 23 5/8\")."
           : "Units, money and the limits of the saw and laser that every plan allows for. Only the owner can change them."}
       </PageHeader>
-      {canWrite ? <SettingsForm settings={settings} actionData={actionData} /> : <SettingsReadOnly settings={settings} />}
+      {canWrite ? <SettingsForm settings={settings} actionData={actionData} paymentsReady={paymentsReady} /> : <SettingsReadOnly settings={settings} />}
     </div>
   );
 }
 
 type SettingsResult = { ok: boolean; errors: Record<string, string>; values: Record<string, string> | null };
 
-function SettingsForm({ settings, actionData }: { settings: SettingsValues; actionData: SettingsResult | undefined }) {
+function SettingsForm({ settings, actionData, paymentsReady }: { settings: Settings; actionData: SettingsResult | undefined; paymentsReady: boolean }) {
   const errors = actionData?.errors ?? {};
   // A rejected form comes back exactly as typed; otherwise the stored values, formatted.
-  const values = actionData?.values ?? settingsFormValues(settings);
+  const values = actionData?.values ?? { ...settingsFormValues(settings), ...depositFormValues(settings, settings.currency) };
   const unitWord = settings.displayUnit === "mm" ? "millimetres" : "inches";
   return (
     <Form method="post" noValidate className="space-y-6" key={JSON.stringify(values)}>
@@ -96,17 +106,39 @@ function SettingsForm({ settings, actionData }: { settings: SettingsValues; acti
           )}
         </section>
       ))}
+      <section className="grid gap-4 rounded-lg border border-line bg-card p-5 md:grid-cols-2" aria-labelledby="deposit-heading">
+        <div className="md:col-span-2">
+          <h2 id="deposit-heading" className="text-lg font-semibold">
+            Deposits
+          </h2>
+          <p className="text-sm text-muted">
+            Asked when an order is confirmed: the confirmation e-mail carries a payment link, and the order shows what was paid and the balance due.
+          </p>
+        </div>
+        <SelectField label="Deposit on confirmation" name="depositRule" defaultValue={values.depositRule} error={errors.depositRule} className="md:col-span-2">
+          {DEPOSIT_RULES.map((r) => (
+            <option key={r} value={r}>
+              {DEPOSIT_RULE_LABELS[r]}
+            </option>
+          ))}
+        </SelectField>
+        <Field label="Percentage of the order total" name="depositPercent" defaultValue={values.depositPercent} error={errors.depositPercent} hint="A whole number from 1 to 100, rounded to the nearest minor unit." inputMode="numeric" autoComplete="off" />
+        <Field label="Fixed amount" name="depositFixedMinor" defaultValue={values.depositFixedMinor} error={errors.depositFixedMinor} hint="In the shop's currency; never more than the order total." inputMode="decimal" autoComplete="off" />
+        {!paymentsReady && (
+          <p className="text-sm font-medium text-warn md:col-span-2">Payments are not set up on this server (STRIPE_SECRET_KEY and STRIPE_WEBHOOK_SECRET), so no payment link can be sent yet.</p>
+        )}
+      </section>
       <SubmitButton pendingText="Saving…">Save settings</SubmitButton>
     </Form>
   );
 }
 
-function SettingsReadOnly({ settings }: { settings: SettingsValues }) {
+function SettingsReadOnly({ settings }: { settings: Settings }) {
   const unit = DISPLAY_UNITS.find((u) => u.value === settings.displayUnit)?.label ?? settings.displayUnit;
   return (
     <div className="space-y-6" data-testid="settings-read-only">
       <FormAlert tone="warn">Read only: these are set by the shop's owner.</FormAlert>
-      <ReadOnlyGroup title="Units and money" rows={[["Lengths are shown in", unit], ["Currency", settings.currency]]} />
+      <ReadOnlyGroup title="Units and money" rows={[["Lengths are shown in", unit], ["Currency", settings.currency], ["Deposit on confirmation", describeRule(settings, settings.currency)]]} />
       {SETTINGS_GROUPS.map((group) => (
         <ReadOnlyGroup
           key={group.title}

@@ -22,6 +22,8 @@ function NavItems({ areas, outbox, onNavigate }: { areas: Area[]; outbox: boolea
         <li key={item.path}>
           <NavLink
             to={item.path}
+            // An area with another area under it ("/ledger", "/ledger/deposits") is lit only at its own address.
+            end={items.some((other) => other.path.startsWith(`${item.path}/`))}
             onClick={onNavigate}
             className={({ isActive }) =>
               `flex items-baseline justify-between rounded-md px-3 py-2.5 text-[0.95rem] ${

@@ -94,4 +94,38 @@ describe("another shop's ids", () => {
     expect(m.name).toBe("Their MDF");
     expect(await getDb().select().from(t.stockPanels).where(eq(t.stockPanels.materialId, material.id))).toEqual([panel]);
   });
+
+  it("deposits: another shop's deposit cannot be refunded, asked or read, and an event naming the wrong shop changes nothing", async () => {
+    const t = await import("../../db/schema");
+    const { deliver, eventBody, payOnFake, retrieveSession } = await import("../support/payments");
+    await getDb().update(t.shops).set({ depositRule: "percent", depositPercent: 50 }).where(eq(t.shops.id, theirs.id));
+    const cat = await createCatalogue(theirs.id);
+    const order = await createOrder(theirs.id, { customerId: cat.customer.id, eventDate: "2027-05-01", dueDate: "2027-04-20", notes: "" }, [
+      { productId: cat.sign.id, quantity: 1, personalisation: [], notes: "", files: [] },
+    ]);
+    const theirOwner = await signIn(server, theirs.users.owner);
+    await request(server).post(`/orders/${order.id}`).set("Cookie", theirOwner).field("intent", "move").field("to", "confirmed").field("deposit", "yes");
+    const [deposit] = await getDb().select().from(t.deposits).where(eq(t.deposits.orderId, order.id));
+    await payOnFake((await request(server).get(`/pay/${deposit.linkToken}/checkout`)).headers.location);
+    const [withSession] = await getDb().select().from(t.deposits).where(eq(t.deposits.id, deposit.id));
+    const session = await retrieveSession(withSession.checkoutSessionId!);
+
+    // A signed event whose session names my shop for their deposit finds nothing to record.
+    const misdirected = { ...session, metadata: { ...session.metadata, shopId: mine.id } };
+    expect((await deliver(server, eventBody("checkout.session.completed", misdirected))).body.outcome).toBe("ignored");
+    expect(await getDb().select().from(t.depositMoves).where(eq(t.depositMoves.depositId, deposit.id))).toEqual([]);
+
+    expect((await deliver(server, eventBody("checkout.session.completed", session))).body.outcome).toBe("recorded");
+    expect((await request(server).post(`/orders/${order.id}`).set("Cookie", owner).field("intent", "refund-deposit")).status).toBe(404);
+    expect((await request(server).post(`/orders/${order.id}`).set("Cookie", owner).field("intent", "request-deposit")).status).toBe(404);
+    const [after] = await getDb().select().from(t.deposits).where(eq(t.deposits.id, deposit.id));
+    expect(after.status).toBe("paid");
+    expect(await getDb().select().from(t.depositMoves).where(eq(t.depositMoves.depositId, deposit.id))).toHaveLength(1);
+    const myBooks = await signIn(server, mine.users.bookkeeper);
+    const ledger = await request(server).get("/ledger/deposits").set("Cookie", myBooks);
+    expect(ledger.status).toBe(200);
+    expect(ledger.text).not.toContain(order.id);
+    // My shop asked no deposit: its CSV is the title line and the column names only.
+    expect((await request(server).get("/ledger/deposits.csv").set("Cookie", myBooks)).text.trim().split("\r\n")).toHaveLength(2);
+  });
 });

@@ -70,6 +70,13 @@ const MATRIX: Record<string, Entry> = {
   "/ledger/batches/:batchId": { get: notFoundFor("owner", "bookkeeper"), post: NO_ACTION, sample: `/ledger/batches/${MISSING}` },
   "/api/ledger": { get: { ...page("owner", "bookkeeper"), signedOut: 401 }, post: NO_ACTION },
   "/ledger.csv": { get: page("owner", "bookkeeper"), post: NO_ACTION },
+  "/ledger/deposits": { get: page("owner", "bookkeeper"), post: NO_ACTION },
+  "/ledger/deposits.csv": { get: page("owner", "bookkeeper"), post: NO_ACTION },
+  // The payment service's webhook: no session needed; an unsigned call is refused whoever sends it.
+  "/webhooks/payments": { get: all(405), post: all(400) },
+  // The customer's payment link: no sign-in; an unknown token is a 404 for everyone.
+  "/pay/:token": { get: all(404), post: NO_ACTION, sample: "/pay/not-a-real-payment-link-token" },
+  "/pay/:token/checkout": { get: all(404), post: NO_ACTION, sample: "/pay/not-a-real-payment-link-token/checkout" },
   "/settings": { get: page("owner", "planner"), post: { ...page("owner"), owner: 400 } },
   "/team": { get: page("owner"), post: { ...page("owner"), owner: 400 } },
   "/dev/outbox": { get: page("owner"), post: NO_ACTION },

@@ -2,9 +2,10 @@ import { eq } from "drizzle-orm";
 import request from "supertest";
 import { describe, expect, it } from "vitest";
 import { shops } from "../../db/schema";
-import { appServer } from "../support/app";
+import { appServer, visible } from "../support/app";
 import { createShop, signIn } from "../support/factories";
 import { getDb } from "~/db.server";
+import { depositFormValues } from "~/lib/deposits";
 import { settingsFormValues } from "~/lib/shop-settings";
 
 const server = await appServer();
@@ -16,7 +17,8 @@ async function stored(shopId: string) {
 
 /** The form exactly as the page shows it for the stored settings, with some fields changed. */
 async function form(shopId: string, changes: Record<string, string> = {}) {
-  return { ...settingsFormValues(await stored(shopId)), ...changes };
+  const shop = await stored(shopId);
+  return { ...settingsFormValues(shop), ...depositFormValues(shop, shop.currency), ...changes };
 }
 
 describe("shop settings", () => {
@@ -140,5 +142,50 @@ describe("shop settings", () => {
     expect((await request(server).post("/settings").set("Cookie", owner).type("form").send(await form(mine.id, { kerfUm: "2.2" }))).status).toBe(200);
     expect((await stored(mine.id)).kerfUm).toBe(2200);
     expect(await stored(theirs.id)).toEqual(before);
+  });
+
+  it("saves a deposit rule: a percentage, or a fixed amount read in the currency on the form", async () => {
+    const shop = await createShop("Settings");
+    const owner = await signIn(server, shop.users.owner);
+    const percent = await request(server).post("/settings").set("Cookie", owner).type("form").send(await form(shop.id, { depositRule: "percent", depositPercent: "30 %" }));
+    expect(percent.status).toBe(200);
+    expect(await stored(shop.id)).toMatchObject({ depositRule: "percent", depositPercent: 30, depositFixedMinor: null });
+    expect((await request(server).get("/settings").set("Cookie", owner)).text).toContain('name="depositPercent" value="30"');
+
+    const fixed = await request(server).post("/settings").set("Cookie", owner).type("form").send(await form(shop.id, { currency: "JPY", depositRule: "fixed", depositFixedMinor: "5000" }));
+    expect(fixed.status).toBe(200);
+    expect(await stored(shop.id)).toMatchObject({ currency: "JPY", depositRule: "fixed", depositPercent: 30, depositFixedMinor: 5000 });
+
+    const none = await request(server).post("/settings").set("Cookie", owner).type("form").send(await form(shop.id, { depositRule: "none" }));
+    expect(none.status).toBe(200);
+    expect((await stored(shop.id)).depositRule).toBe("none");
+
+    const planner = await signIn(server, shop.users.planner);
+    expect(visible((await request(server).get("/settings").set("Cookie", planner)).text)).toContain("No deposit is asked");
+  });
+
+  it("refuses a bad deposit rule with a message on the field concerned, and saves nothing", async () => {
+    const shop = await createShop("Settings");
+    const owner = await signIn(server, shop.users.owner);
+    const before = await stored(shop.id);
+    const cases: [Record<string, string>, string, RegExp][] = [
+      [{ depositRule: "percent", depositPercent: "" }, "depositPercent", /Enter the percentage of the order total to ask\./],
+      [{ depositRule: "percent", depositPercent: "150" }, "depositPercent", /Must be between 1 % and 100 %\./],
+      [{ depositRule: "percent", depositPercent: "12.5" }, "depositPercent", /Enter a whole percentage, such as 30\./],
+      [{ depositRule: "fixed", depositFixedMinor: "" }, "depositFixedMinor", /Enter the amount to ask\./],
+      [{ depositRule: "fixed", depositFixedMinor: "-5" }, "depositFixedMinor", /Enter an amount in EUR above zero, such as 50\.00\./],
+      [{ depositRule: "fixed", depositFixedMinor: "12.345" }, "depositFixedMinor", /Enter an amount in EUR above zero/],
+      [{ depositRule: "half" }, "depositRule", /Choose how the deposit is worked out\./],
+      // The field not chosen is still checked when filled in.
+      [{ depositRule: "percent", depositPercent: "25", depositFixedMinor: "lots" }, "depositFixedMinor", /Enter an amount in EUR above zero/],
+    ];
+    for (const [changes, field, message] of cases) {
+      const res = await request(server).post("/settings").set("Cookie", owner).type("form").send(await form(shop.id, changes));
+      expect(res.status, JSON.stringify(changes)).toBe(400);
+      const html = visible(res.text);
+      expect(html, JSON.stringify(changes)).toMatch(new RegExp(`id="field-${field}-error"[^>]*>${message.source}`));
+      expect(html).toContain("Nothing was saved");
+    }
+    expect(await stored(shop.id)).toEqual(before);
   });
 });

@@ -1,0 +1,89 @@
+import { Form } from "react-router";
+import { SubmitButton } from "./forms";
+import { DEPOSIT_STATUS_LABELS, type DepositStatus } from "~/lib/deposits";
+import { formatMoney } from "~/lib/money";
+
+export type DepositView = {
+  deposit: { status: DepositStatus; amountMinor: number; requestedAt: string; paidAt: string | null; refundedAt: string | null; link: string | null } | null;
+  paidMinor: number;
+  refundedMinor: number;
+  heldMinor: number;
+  balanceMinor: number;
+  proposedMinor: number | null;
+  canRefund: boolean;
+};
+
+const TONE: Record<DepositStatus, string> = {
+  requested: "bg-warn-soft text-warn",
+  paid: "bg-ok-soft text-ok",
+  refund_pending: "bg-warn-soft text-warn",
+  refunded: "bg-line/60 text-ink",
+};
+
+const day = (iso: string) => new Date(iso).toLocaleDateString("en-GB", { day: "numeric", month: "short", year: "numeric", timeZone: "UTC" });
+
+/** The order's deposit: what was asked, paid and refunded, the balance due, and the owner's actions. */
+export function DepositPanel({ view, order, currency, canWrite }: { view: DepositView; order: { status: string; totalMinor: number }; currency: string; canWrite: boolean }) {
+  const { deposit } = view;
+  const money = (minor: number) => formatMoney(minor, currency);
+  const open = order.status !== "draft" && order.status !== "cancelled" && order.status !== "delivered";
+  const canAsk = canWrite && open && view.proposedMinor !== null && (!deposit || deposit.status === "refunded");
+  if (!deposit && !canAsk) return null;
+  return (
+    <section className="space-y-3 rounded-lg border border-line bg-card p-4" data-testid="deposit">
+      <div className="flex flex-wrap items-center justify-between gap-3">
+        <h2 className="text-lg font-semibold">Deposit</h2>
+        {deposit && (
+          <span className={`rounded-full px-3 py-1 text-sm font-semibold ${TONE[deposit.status]}`} data-testid="deposit-status">
+            {DEPOSIT_STATUS_LABELS[deposit.status]}
+          </span>
+        )}
+      </div>
+      {deposit && (
+        <dl className="grid grid-cols-2 gap-x-6 gap-y-2 text-sm sm:grid-cols-4">
+          <Figure label={`Asked ${day(deposit.requestedAt)}`} value={money(deposit.amountMinor)} />
+          <Figure label={deposit.paidAt ? `Paid ${day(deposit.paidAt)}` : "Paid"} value={money(view.paidMinor)} />
+          <Figure label={deposit.refundedAt ? `Refunded ${day(deposit.refundedAt)}` : "Refunded"} value={money(view.refundedMinor)} />
+          <Figure label="Balance due" value={money(view.balanceMinor)} strong testId="balance-due" />
+        </dl>
+      )}
+      {deposit?.status === "requested" && deposit.link && (
+        <p className="break-all text-sm text-muted">
+          Payment link sent to the customer: <a href={deposit.link} className="text-edge underline">{deposit.link}</a>
+        </p>
+      )}
+      {canAsk && (
+        <Form method="post" encType="multipart/form-data" className="flex flex-wrap items-center gap-3">
+          <input type="hidden" name="intent" value="request-deposit" />
+          <SubmitButton pendingText="Asking…">Ask a deposit of {money(view.proposedMinor!)}</SubmitButton>
+          <span className="text-sm text-muted">The customer gets a payment link by e-mail.</span>
+        </Form>
+      )}
+      {deposit?.status === "paid" && view.canRefund && view.heldMinor > 0 && (
+        <details className="text-sm">
+          <summary className="cursor-pointer font-medium text-bad">Refund the deposit…</summary>
+          <Form method="post" encType="multipart/form-data" className="mt-3 flex flex-wrap items-center gap-3">
+            <input type="hidden" name="intent" value="refund-deposit" />
+            <p>
+              {money(view.heldMinor)} goes back to the customer's card through the payment service. This cannot be undone.
+            </p>
+            <button type="submit" className="min-h-11 rounded-md border border-bad/40 bg-white px-4 font-semibold text-bad hover:bg-bad-soft">
+              Refund {money(view.heldMinor)}
+            </button>
+          </Form>
+        </details>
+      )}
+    </section>
+  );
+}
+
+function Figure({ label, value, strong, testId }: { label: string; value: string; strong?: boolean; testId?: string }) {
+  return (
+    <div>
+      <dt className="text-muted">{label}</dt>
+      <dd className={`tabular-nums ${strong ? "text-base font-semibold" : "font-medium"}`} data-testid={testId}>
+        {value}
+      </dd>
+    </div>
+  );
+}

@@ -1,0 +1,121 @@
+import { Form, Link, useSearchParams } from "react-router";
+import type { Route } from "./+types/ledger.deposits";
+import { requirePermission } from "~/auth.server";
+import { PageHeader } from "~/components/page-header";
+import { DEPOSIT_STATUS_LABELS } from "~/lib/deposits";
+import { formatMoney } from "~/lib/money";
+import { depositLedger } from "~/models/deposit-ledger.server";
+import { getShop } from "~/models/shops.server";
+
+export async function loader(args: Route.LoaderArgs) {
+  const user = requirePermission(args, "deposits:read");
+  const [ledger, shop] = await Promise.all([depositLedger(user.shopId, new URL(args.request.url).searchParams), getShop(user.shopId)]);
+  return { ...ledger, currency: shop.currency };
+}
+
+export default function DepositLedger({ loaderData }: Route.ComponentProps) {
+  const { period, orders, totals, months, currency } = loaderData;
+  const [params] = useSearchParams();
+  const money = (minor: number) => formatMoney(minor, currency);
+  const month = /^\d{4}-\d{2}$/.test(period.label) ? period.label : "";
+  const heads = ["Order total", "Deposit asked", "Paid", "Refunded", "Balance due"];
+  return (
+    <div className="space-y-8">
+      <PageHeader eyebrow="Bookkeeper" title="Deposits">
+        What customers paid towards their orders through the payment service, what went back to them, and what each order still owes.
+      </PageHeader>
+      <Form method="get" className="flex flex-wrap items-end gap-3">
+        <label className="space-y-1 text-sm font-medium">
+          <span className="block">Month</span>
+          <input type="month" name="month" defaultValue={month} className="block min-h-11 rounded-md border border-line bg-white px-3" />
+        </label>
+        <button type="submit" className="min-h-11 rounded-md border border-line bg-white px-4 font-medium hover:border-edge">
+          Show
+        </button>
+        <Link to="/ledger" className="min-h-11 content-center text-sm text-edge underline">
+          Material ledger
+        </Link>
+        <a href={`/ledger/deposits.csv?${params}`} download className="ml-auto inline-flex min-h-11 items-center rounded-md bg-edge px-4 font-semibold text-white hover:bg-edge-dark">
+          Download CSV
+        </a>
+      </Form>
+
+      <section className="space-y-3">
+        <h2 className="text-xl font-semibold">{period.label}: orders with deposits</h2>
+        <p className="text-sm text-muted">
+          Received {money(totals.receivedInPeriodMinor)} · refunded {money(totals.refundedInPeriodMinor)} in this period. Paid and refunded columns count each order to date.
+        </p>
+        <div className="overflow-x-auto rounded-lg border border-line bg-card">
+          <table className="w-full min-w-[46rem] text-left text-sm" data-testid="deposit-orders">
+            <thead className="border-b border-line text-xs uppercase tracking-wider text-muted">
+              <tr>
+                <th className="px-3 py-3">Order</th>
+                <th className="px-3 py-3">Status</th>
+                {heads.map((h) => (
+                  <th key={h} className="px-3 py-3 text-right">
+                    {h}
+                  </th>
+                ))}
+              </tr>
+            </thead>
+            <tbody className="divide-y divide-line">
+              {orders.map((o) => (
+                <tr key={o.orderId}>
+                  <th className="px-3 py-2 font-medium">
+                    <Link to={`/orders/${o.orderId}`} className="text-edge hover:underline">
+                      #{o.orderNumber}
+                    </Link>{" "}
+                    <span className="font-normal">{o.customerName}</span>
+                  </th>
+                  <td className="whitespace-nowrap px-3 py-2">{DEPOSIT_STATUS_LABELS[o.status]}</td>
+                  {[o.orderTotalMinor, o.askedMinor, o.paidMinor, o.refundedMinor, o.balanceMinor].map((m, i) => (
+                    <td key={i} className="whitespace-nowrap px-3 py-2 text-right tabular-nums">
+                      {money(m)}
+                    </td>
+                  ))}
+                </tr>
+              ))}
+              {orders.length === 0 && (
+                <tr>
+                  <td colSpan={7} className="px-3 py-6 text-center text-muted">
+                    No deposit was asked or paid in this period.
+                  </td>
+                </tr>
+              )}
+            </tbody>
+          </table>
+        </div>
+      </section>
+
+      <section className="space-y-3">
+        <h2 className="text-xl font-semibold">By month, last twelve months</h2>
+        <div className="overflow-x-auto rounded-lg border border-line bg-card">
+          <table className="w-full min-w-[28rem] text-left text-sm" data-testid="deposit-months">
+            <thead className="border-b border-line text-xs uppercase tracking-wider text-muted">
+              <tr>
+                <th className="px-3 py-3">Month</th>
+                <th className="px-3 py-3 text-right">Received</th>
+                <th className="px-3 py-3 text-right">Refunded</th>
+                <th className="px-3 py-3 text-right">Net</th>
+              </tr>
+            </thead>
+            <tbody className="divide-y divide-line">
+              {months.map((m) => (
+                <tr key={m.month} className={m.receivedMinor || m.refundedMinor ? "" : "text-muted"}>
+                  <th className="px-3 py-2 font-medium">
+                    <Link to={`?month=${m.month}`} className="hover:underline">
+                      {m.month}
+                    </Link>
+                  </th>
+                  <td className="px-3 py-2 text-right tabular-nums">{money(m.receivedMinor)}</td>
+                  <td className="px-3 py-2 text-right tabular-nums">{money(m.refundedMinor)}</td>
+                  <td className="px-3 py-2 text-right font-semibold tabular-nums">{money(m.netMinor)}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+      </section>
+    </div>
+  );
+}

@@ -1,0 +1,262 @@
+// Deposits end to end over HTTP: the owner confirms and the customer's e-mail carries a payment link;
+// the link opens a Checkout Session at the local fake payment service (started by bin/test); webhook
+// events are verified, recorded once, in minor units; the owner refunds; the bookkeeper reads.
+import { parse } from "csv-parse/sync";
+import { and, eq } from "drizzle-orm";
+import request from "supertest";
+import { beforeAll, describe, expect, it } from "vitest";
+import * as t from "../../db/schema";
+import { appServer, visible } from "../support/app";
+import { createShop, signIn, type TestShop } from "../support/factories";
+import { createCatalogue } from "../support/order-factories";
+import { linkIn, waitForMail, mailTo } from "../support/outbox";
+import { deliver, eventBody, payOnFake, retrieveSession, sign } from "../support/payments";
+import { getDb } from "~/db.server";
+import { depositLedger } from "~/models/deposit-ledger.server";
+import { createOrder } from "~/models/orders.server";
+
+const server = await appServer();
+const db = getDb();
+let shop: TestShop;
+let cat: Awaited<ReturnType<typeof createCatalogue>>;
+let owner: string;
+
+beforeAll(async () => {
+  shop = await createShop("Deposits");
+  await db.update(t.shops).set({ depositRule: "percent", depositPercent: 30 }).where(eq(t.shops.id, shop.id));
+  cat = await createCatalogue(shop.id);
+  owner = await signIn(server, shop.users.owner);
+});
+
+/** A draft order of a welcome sign and 18 table numbers: €85.00 + 18 × €6.50 = €202.00. */
+async function draftOrder() {
+  return createOrder(shop.id, { customerId: cat.customer.id, eventDate: "2027-06-12", dueDate: "2027-05-29", notes: "" }, [
+    { productId: cat.sign.id, quantity: 1, personalisation: ["Welcome"], notes: "", files: [] },
+    { productId: cat.tableNumber.id, quantity: 18, personalisation: [], notes: "", files: [] },
+  ]);
+}
+
+async function confirmWithDeposit(orderId: string) {
+  const res = await request(server).post(`/orders/${orderId}`).set("Cookie", owner).field("intent", "move").field("to", "confirmed").field("deposit", "yes");
+  expect(res.status, res.text.slice(0, 300)).toBe(302);
+  const [deposit] = await db.select().from(t.deposits).where(eq(t.deposits.orderId, orderId));
+  return deposit;
+}
+
+/** Confirms, follows the link to the fake's checkout and presses Pay there; returns the completed session. */
+async function paidSession(orderId: string) {
+  const deposit = await confirmWithDeposit(orderId);
+  const checkout = await request(server).get(`/pay/${deposit.linkToken}/checkout`);
+  expect(checkout.status).toBe(302);
+  await payOnFake(checkout.headers.location);
+  const [row] = await db.select().from(t.deposits).where(eq(t.deposits.id, deposit.id));
+  return { deposit, session: await retrieveSession(row.checkoutSessionId!) };
+}
+
+const movesOf = (depositId: string) => db.select().from(t.depositMoves).where(eq(t.depositMoves.depositId, depositId));
+const depositRow = async (id: string) => (await db.select().from(t.deposits).where(eq(t.deposits.id, id)))[0];
+
+describe("deposits", () => {
+  it("confirming asks the shop's 30 %, e-mails the link, and the link opens one checkout at the payment service", async () => {
+    const order = await draftOrder();
+    const page = visible((await request(server).get(`/orders/${order.id}`).set("Cookie", owner)).text);
+    expect(page).toMatch(/Ask a deposit of <strong[^>]*>€60\.60<\/strong> with a payment link in the e-mail/);
+
+    const seen = mailTo(cat.customer.email).length;
+    const deposit = await confirmWithDeposit(order.id);
+    expect(deposit).toMatchObject({ shopId: shop.id, amountMinor: 6060, currency: "EUR", status: "requested" });
+    const mail = await waitForMail(cat.customer.email, seen);
+    expect(mail.text).toContain("To start work we ask a deposit of €60.60");
+    const link = linkIn(mail);
+    expect(link).toMatch(new RegExp(`/pay/${deposit.linkToken}$`));
+
+    const payPage = visible((await request(server).get(new URL(link).pathname)).text);
+    expect(payPage).toContain("asks a deposit of <strong class=\"tabular-nums\">€60.60</strong> towards your order");
+    expect(payPage).toContain("Pay €60.60 now");
+
+    const first = await request(server).get(`/pay/${deposit.linkToken}/checkout`);
+    expect(first.status).toBe(302);
+    expect(first.headers.location).toMatch(new RegExp(`^http://127\\.0\\.0\\.1:${process.env.STRIPE_API_PORT}/pay/cs_fake_`));
+    const again = await request(server).get(`/pay/${deposit.linkToken}/checkout`);
+    expect(again.headers.location).toBe(first.headers.location); // the open session is reused
+    const session = await retrieveSession((await depositRow(deposit.id)).checkoutSessionId!);
+    expect(session).toMatchObject({ amount_total: 6060, currency: "eur", status: "open", metadata: { shopId: shop.id, depositId: deposit.id } });
+
+    const orderPage = visible((await request(server).get(`/orders/${order.id}`).set("Cookie", owner)).text);
+    expect(orderPage).toContain("Deposit requested");
+    expect(orderPage).toMatch(/data-testid="balance-due">€202\.00/);
+  });
+
+  it("refuses unsigned, wrongly signed and tampered webhook calls with 400, and records nothing", async () => {
+    const order = await draftOrder();
+    const { deposit, session } = await paidSession(order.id);
+    const body = eventBody("checkout.session.completed", session);
+
+    const unsigned = await deliver(server, body, null);
+    expect(unsigned.status).toBe(400);
+    expect(unsigned.body.error).toMatch(/Signature refused/);
+    expect((await deliver(server, body, sign(body, "whsec_not_the_shops"))).status).toBe(400);
+    const tampered = body.replace('"amount_total":6060', '"amount_total":1');
+    expect(tampered).not.toBe(body);
+    expect((await deliver(server, tampered, sign(body))).status).toBe(400);
+    expect((await deliver(server, body, "t=1,v1=deadbeef")).status).toBe(400);
+    // A correct signature made five minutes ago is stale (the SDK's default tolerance is 300 s).
+    const stale = new (await import("stripe")).default("sk_test_x").webhooks.generateTestHeaderString({ payload: body, secret: process.env.STRIPE_WEBHOOK_SECRET!, timestamp: Math.floor(Date.now() / 1000) - 600 });
+    expect((await deliver(server, body, stale)).status).toBe(400);
+
+    expect(await movesOf(deposit.id)).toEqual([]);
+    expect((await depositRow(deposit.id)).status).toBe("requested");
+  });
+
+  it("a correctly signed event records the payment once, in minor units, however often it is delivered", async () => {
+    const order = await draftOrder();
+    const { deposit, session } = await paidSession(order.id);
+    const body = eventBody("checkout.session.completed", session);
+
+    const first = await deliver(server, body);
+    expect(first.status).toBe(200);
+    expect(first.body).toEqual({ received: true, outcome: "recorded" });
+    const second = await deliver(server, body);
+    expect(second.body.outcome).toBe("duplicate");
+    // The same payment reported under another event id still records once.
+    const other = await deliver(server, eventBody("checkout.session.async_payment_succeeded", session));
+    expect(other.body.outcome).toBe("duplicate");
+
+    const moves = await movesOf(deposit.id);
+    expect(moves).toHaveLength(1);
+    expect(moves[0]).toMatchObject({ kind: "payment", amountMinor: 6060, currency: "EUR", providerRef: session.payment_intent });
+    expect(await depositRow(deposit.id)).toMatchObject({ status: "paid", paymentIntentId: session.payment_intent });
+
+    const orderPage = visible((await request(server).get(`/orders/${order.id}`).set("Cookie", owner)).text);
+    expect(orderPage).toContain("Deposit paid");
+    expect(orderPage).toMatch(/data-testid="balance-due">€141\.40/);
+    // The customer coming back sees it paid.
+    expect(visible((await request(server).get(`/pay/${deposit.linkToken}`)).text)).toContain("your deposit of €60.60 is paid");
+    // An event the app does not handle is acknowledged and changes nothing.
+    expect((await deliver(server, eventBody("customer.created", { id: "cus_1", object: "customer" }))).body.outcome).toBe("ignored");
+  });
+
+  it("only the owner refunds: the bookkeeper reads the deposit, planner and sawyer are refused; the refund is recorded once", async () => {
+    const order = await draftOrder();
+    const { deposit, session } = await paidSession(order.id);
+    await deliver(server, eventBody("checkout.session.completed", session));
+
+    const bookkeeper = await signIn(server, shop.users.bookkeeper);
+    const read = visible((await request(server).get(`/orders/${order.id}`).set("Cookie", bookkeeper)).text);
+    expect(read).toContain("Deposit paid");
+    expect(read).not.toContain("Refund the deposit");
+    for (const role of ["bookkeeper", "planner", "sawyer"] as const) {
+      const cookie = await signIn(server, shop.users[role]);
+      const res = await request(server).post(`/orders/${order.id}`).set("Cookie", cookie).field("intent", "refund-deposit");
+      expect(res.status, role).toBe(403);
+    }
+    expect((await request(server).get(`/orders/${order.id}`).set("Cookie", await signIn(server, shop.users.sawyer))).status).toBe(403);
+    expect(await movesOf(deposit.id)).toHaveLength(1);
+
+    expect(visible((await request(server).get(`/orders/${order.id}`).set("Cookie", owner)).text)).toContain("Refund €60.60");
+    const refund = await request(server).post(`/orders/${order.id}`).set("Cookie", owner).field("intent", "refund-deposit");
+    expect(refund.status, refund.text.slice(0, 300)).toBe(302);
+    const moves = await movesOf(deposit.id);
+    const refundMove = moves.find((m) => m.kind === "refund")!;
+    expect(refundMove).toMatchObject({ amountMinor: 6060, currency: "EUR", eventId: null, recordedBy: shop.users.owner.id });
+    expect(refundMove.providerRef).toMatch(/^re_fake_/);
+    expect(await depositRow(deposit.id)).toMatchObject({ status: "refunded" });
+
+    // The service's own refund.created event for the same refund changes nothing more.
+    const refundEvent = { id: refundMove.providerRef, object: "refund", amount: 6060, currency: "eur", status: "succeeded", payment_intent: session.payment_intent, metadata: { shopId: shop.id, depositId: deposit.id } };
+    expect((await deliver(server, eventBody("refund.created", refundEvent))).body.outcome).toBe("duplicate");
+    expect(await movesOf(deposit.id)).toHaveLength(2);
+
+    const again = await request(server).post(`/orders/${order.id}`).set("Cookie", owner).field("intent", "refund-deposit");
+    expect(again.status).toBe(409);
+    expect(visible(again.text)).toContain("The deposit was already refunded.");
+    const page = visible((await request(server).get(`/orders/${order.id}`).set("Cookie", owner)).text);
+    expect(page).toContain("Deposit refunded");
+    expect(page).toMatch(/data-testid="balance-due">€202\.00/);
+  });
+
+  it("a deposit can be asked after confirming; a cancelled checkout leaves it asked", async () => {
+    const order = await draftOrder();
+    expect((await request(server).post(`/orders/${order.id}`).set("Cookie", owner).field("intent", "move").field("to", "confirmed")).status).toBe(302);
+    expect(await db.select().from(t.deposits).where(eq(t.deposits.orderId, order.id))).toEqual([]);
+    const seen = mailTo(cat.customer.email).length;
+    expect((await request(server).post(`/orders/${order.id}`).set("Cookie", owner).field("intent", "request-deposit")).status).toBe(302);
+    const mail = await waitForMail(cat.customer.email, seen);
+    expect(mail.subject).toMatch(/^Deposit for your order #\d+ with /);
+    const token = new URL(linkIn(mail)).pathname.split("/")[2];
+    // Asking twice keeps one deposit.
+    expect((await request(server).post(`/orders/${order.id}`).set("Cookie", owner).field("intent", "request-deposit")).status).toBe(302);
+    expect(await db.select().from(t.deposits).where(eq(t.deposits.orderId, order.id))).toHaveLength(1);
+
+    const checkout = await request(server).get(`/pay/${token}/checkout`);
+    const url = new URL(checkout.headers.location);
+    const cancel = await fetch(`${url.origin}${url.pathname}/cancel`, { method: "POST", redirect: "manual" });
+    expect(cancel.headers.get("location")).toMatch(new RegExp(`/pay/${token}\\?cancelled=1$`));
+    expect(visible((await request(server).get(`/pay/${token}?cancelled=1`)).text)).toContain("No payment was taken.");
+    const [deposit] = await db.select().from(t.deposits).where(eq(t.deposits.orderId, order.id));
+    expect(deposit.status).toBe("requested");
+    expect((await request(server).get("/pay/no-such-link-token-at-all-0000")).status).toBe(404);
+  });
+
+  it("the bookkeeper's deposits ledger lists each order's deposit and balance, per month, and its CSV parses back to the same figures", async () => {
+    const fresh = await createShop("Deposit books");
+    await db.update(t.shops).set({ depositRule: "fixed", depositFixedMinor: 5000, currency: "GBP" }).where(eq(t.shops.id, fresh.id));
+    const c = await createCatalogue(fresh.id);
+    const make = () =>
+      createOrder(fresh.id, { customerId: c.customer.id, eventDate: "2027-06-12", dueDate: "2027-05-29", notes: "" }, [{ productId: c.sign.id, quantity: 2, personalisation: [], notes: "", files: [] }]);
+    const [paid, asked] = [await make(), await make()];
+    const freshOwner = await signIn(server, fresh.users.owner);
+    for (const o of [paid, asked]) {
+      expect((await request(server).post(`/orders/${o.id}`).set("Cookie", freshOwner).field("intent", "move").field("to", "confirmed").field("deposit", "yes")).status).toBe(302);
+    }
+    const [d] = await db.select().from(t.deposits).where(and(eq(t.deposits.shopId, fresh.id), eq(t.deposits.orderId, paid.id)));
+    await payOnFake((await request(server).get(`/pay/${d.linkToken}/checkout`)).headers.location);
+    const session = await retrieveSession((await depositRow(d.id)).checkoutSessionId!);
+    expect((await deliver(server, eventBody("checkout.session.completed", session))).body.outcome).toBe("recorded");
+
+    const month = new Date().toISOString().slice(0, 7);
+    const bookkeeper = await signIn(server, fresh.users.bookkeeper);
+    const page = await request(server).get(`/ledger/deposits?month=${month}`).set("Cookie", bookkeeper);
+    expect(page.status).toBe(200);
+    const html = visible(page.text);
+    expect(html).toContain(`#${paid.number}`);
+    expect(html).toContain(`#${asked.number}`);
+    expect(html).toContain("Received £50.00 · refunded £0.00 in this period");
+
+    const ledger = await depositLedger(fresh.id, new URLSearchParams({ month }));
+    expect(ledger.orders.map((o) => [o.orderNumber, o.askedMinor, o.paidMinor, o.balanceMinor])).toEqual([
+      [paid.number, 5000, 5000, 12000],
+      [asked.number, 5000, 0, 17000],
+    ]);
+    expect(ledger.months.at(-1)).toEqual({ month, receivedMinor: 5000, refundedMinor: 0, netMinor: 5000 });
+
+    const csv = await request(server).get(`/ledger/deposits.csv?month=${month}`).set("Cookie", bookkeeper);
+    expect(csv.status).toBe(200);
+    expect(csv.headers["content-type"]).toContain("text/csv");
+    expect(csv.headers["content-disposition"]).toBe(`attachment; filename="stopwise-deposits-${month}.csv"`);
+    const [header, ...rest] = csv.text.split("\r\n");
+    expect(header).toBe(`# Stopwise deposits ${month}; money in GBP`);
+    const records = parse(rest.join("\r\n"), { columns: true, skip_empty_lines: true }) as Record<string, string>[];
+    const minor = (text: string) => Math.round(Number(text) * 100);
+    expect(
+      records.map((r) => ({
+        orderNumber: Number(r.order),
+        customerName: r.customer,
+        orderTotalMinor: minor(r.order_total_GBP),
+        askedMinor: minor(r.deposit_asked_GBP),
+        paidMinor: minor(r.paid_GBP),
+        refundedMinor: minor(r.refunded_GBP),
+        receivedInPeriodMinor: minor(r.received_in_period_GBP),
+        refundedInPeriodMinor: minor(r.refunded_in_period_GBP),
+        balanceMinor: minor(r.balance_due_GBP),
+      })),
+    ).toEqual(ledger.orders.map(({ orderId: _id, status: _status, ...rest }) => rest));
+    expect(records.map((r) => r.deposit_status)).toEqual(["Deposit paid", "Deposit requested"]);
+
+    for (const role of ["planner", "sawyer"] as const) {
+      const cookie = await signIn(server, fresh.users[role]);
+      expect((await request(server).get(`/ledger/deposits?month=${month}`).set("Cookie", cookie)).status, role).toBe(403);
+      expect((await request(server).get(`/ledger/deposits.csv?month=${month}`).set("Cookie", cookie)).status, role).toBe(403);
+    }
+  });
+});
