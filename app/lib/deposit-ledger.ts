@@ -116,7 +116,7 @@ export const DEPOSIT_CSV_FIELDS = (currency: string) => [
   `refunded_${currency}`,
   `received_in_period_${currency}`,
   `refunded_in_period_${currency}`,
-  `balance_due_${currency}`,
+  `balance_after_deposit_${currency}`,
 ];
 
 /** The per-order rows as CSV (RFC 4180 by papaparse); the first line states the period and currency. */

@@ -18,7 +18,7 @@ export default function DepositLedger({ loaderData }: Route.ComponentProps) {
   const [params] = useSearchParams();
   const money = (minor: number) => formatMoney(minor, currency);
   const month = /^\d{4}-\d{2}$/.test(period.label) ? period.label : "";
-  const heads = ["Order total", "Deposit asked", "Paid", "Refunded", "Balance due"];
+  const heads = ["Order total", "Deposit asked", "Paid", "Refunded", "Balance after deposit"];
   return (
     <div className="space-y-8">
       <PageHeader eyebrow="Bookkeeper" title="Deposits">
@@ -43,7 +43,7 @@ export default function DepositLedger({ loaderData }: Route.ComponentProps) {
       <section className="space-y-3">
         <h2 className="text-xl font-semibold">{period.label}: orders with deposits</h2>
         <p className="text-sm text-muted">
-          Received {money(totals.receivedInPeriodMinor)} · refunded {money(totals.refundedInPeriodMinor)} in this period. Paid and refunded columns count each order to date.
+          Received {money(totals.receivedInPeriodMinor)} · refunded {money(totals.refundedInPeriodMinor)} in this period. Paid and refunded count each order to date; the balance after deposit is what the order total leaves to collect.
         </p>
         <div className="overflow-x-auto rounded-lg border border-line bg-card">
           <table className="w-full min-w-[46rem] text-left text-sm" data-testid="deposit-orders">
@@ -90,7 +90,7 @@ export default function DepositLedger({ loaderData }: Route.ComponentProps) {
       <section className="space-y-3">
         <h2 className="text-xl font-semibold">By month, last twelve months</h2>
         <div className="overflow-x-auto rounded-lg border border-line bg-card">
-          <table className="w-full min-w-[28rem] text-left text-sm" data-testid="deposit-months">
+          <table className="w-full text-left text-sm" data-testid="deposit-months">
             <thead className="border-b border-line text-xs uppercase tracking-wider text-muted">
               <tr>
                 <th className="px-3 py-3">Month</th>

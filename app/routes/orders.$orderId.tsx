@@ -220,24 +220,27 @@ export default function OrderPage({ loaderData, actionData }: Route.ComponentPro
       {deposits && <DepositPanel view={deposits} order={order} currency={currency} canWrite={canWrite} />}
 
       {canWrite && nextStatuses(order.status).length > 0 && (
-        <div className="flex flex-wrap items-end gap-2">
-          {nextStatuses(order.status).map((to) => (
-            <Form key={to} method="post" encType="multipart/form-data" className={to === "confirmed" && deposits?.proposedMinor ? "space-y-2" : undefined}>
-              <input type="hidden" name="intent" value="move" />
-              <input type="hidden" name="to" value={to} />
-              {to === "confirmed" && deposits?.proposedMinor ? (
-                <label className="flex min-h-11 items-center gap-2 text-sm">
-                  <input type="checkbox" name="deposit" value="yes" defaultChecked className="size-5 accent-edge" />
-                  <span>
-                    Ask a deposit of <strong className="tabular-nums">{formatMoney(deposits.proposedMinor, currency)}</strong> with a payment link in the e-mail
-                  </span>
-                </label>
-              ) : null}
-              <button type="submit" className={to === "cancelled" ? "min-h-11 rounded-md border border-bad/40 px-4 font-medium text-bad hover:bg-bad-soft" : "min-h-11 rounded-md bg-edge px-4 font-semibold text-white hover:bg-edge-dark"}>
-                {MOVE_LABELS[to] ?? STATUS_LABELS[to]}
-              </button>
-            </Form>
-          ))}
+        <div className="space-y-2">
+          {nextStatuses(order.status).includes("confirmed") && deposits?.proposedMinor ? (
+            // Sent with the confirm button's form (the form attribute), shown above the row of buttons.
+            <label className="flex min-h-11 items-center gap-2 text-sm">
+              <input type="checkbox" name="deposit" value="yes" form="move-confirmed" defaultChecked className="size-5 accent-edge" />
+              <span>
+                Ask a deposit of <strong className="tabular-nums">{formatMoney(deposits.proposedMinor, currency)}</strong> with a payment link in the e-mail
+              </span>
+            </label>
+          ) : null}
+          <div className="flex flex-wrap gap-2">
+            {nextStatuses(order.status).map((to) => (
+              <Form key={to} id={`move-${to}`} method="post" encType="multipart/form-data">
+                <input type="hidden" name="intent" value="move" />
+                <input type="hidden" name="to" value={to} />
+                <button type="submit" className={to === "cancelled" ? "min-h-11 rounded-md border border-bad/40 px-4 font-medium text-bad hover:bg-bad-soft" : "min-h-11 rounded-md bg-edge px-4 font-semibold text-white hover:bg-edge-dark"}>
+                  {MOVE_LABELS[to] ?? STATUS_LABELS[to]}
+                </button>
+              </Form>
+            ))}
+          </div>
         </div>
       )}
 

@@ -248,7 +248,7 @@ describe("deposits", () => {
         refundedMinor: minor(r.refunded_GBP),
         receivedInPeriodMinor: minor(r.received_in_period_GBP),
         refundedInPeriodMinor: minor(r.refunded_in_period_GBP),
-        balanceMinor: minor(r.balance_due_GBP),
+        balanceMinor: minor(r.balance_after_deposit_GBP),
       })),
     ).toEqual(ledger.orders.map(({ orderId: _id, status: _status, ...rest }) => rest));
     expect(records.map((r) => r.deposit_status)).toEqual(["Deposit paid", "Deposit requested"]);
