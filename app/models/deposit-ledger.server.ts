@@ -1,11 +1,11 @@
 import { and, eq, gte, inArray, lt, or, sql } from "drizzle-orm";
-import { customers, depositMoves, deposits, orderLines, orders } from "../../db/schema";
+import { customers, depositMoves, deposits, orders } from "../../db/schema";
 import { getDb } from "~/db.server";
 import { todayIso } from "~/lib/dates";
 import { depositMonths, depositOrderRows, totalsOf } from "~/lib/deposit-ledger";
 import { parsePeriod } from "~/lib/ledger-report";
+import { orderTotal } from "./deposits.server";
 
-const orderTotal = sql<number>`coalesce((select sum(${orderLines.quantity}::bigint * ${orderLines.unitPriceMinor}) from ${orderLines} where ${orderLines.orderId} = ${orders.id}), 0)::bigint`;
 
 /** Everything the deposits ledger page and its CSV show for a period (default: this month). */
 export async function depositLedger(shopId: string, params: URLSearchParams) {
@@ -29,7 +29,7 @@ export async function depositLedger(shopId: string, params: URLSearchParams) {
       orderId: orders.id,
       orderNumber: orders.number,
       customerName: customers.name,
-      orderTotalMinor: orderTotal,
+      orderTotalMinor: orderTotal(orders.id),
       amountMinor: deposits.amountMinor,
       status: deposits.status,
       requestedAt: deposits.requestedAt,

@@ -1,6 +1,6 @@
 import { randomBytes } from "node:crypto";
-import { and, asc, desc, eq, inArray, sql } from "drizzle-orm";
-import type Stripe from "stripe";
+import { and, asc, desc, eq, inArray, sql, type SQLWrapper } from "drizzle-orm";
+import Stripe from "stripe";
 import { customers, depositMoves, deposits, orderLines, orders, shops } from "../../db/schema";
 import { getDb } from "~/db.server";
 import { balanceOf, depositFor, type DepositStatus } from "~/lib/deposits";
@@ -11,7 +11,8 @@ export class DepositError extends Error {}
 
 type Tx = Parameters<Parameters<ReturnType<typeof getDb>["transaction"]>[0]>[0];
 
-const orderTotal = (orderId: string) =>
+/** An order's total in minor units, in SQL: for an order id, or for the `orders.id` column of a query. */
+export const orderTotal = (orderId: string | SQLWrapper) =>
   sql<number>`coalesce((select sum(${orderLines.quantity}::bigint * ${orderLines.unitPriceMinor}) from ${orderLines} where ${orderLines.orderId} = ${orderId}), 0)::bigint`;
 
 /** What the shop's rule would ask of this order now; null when it asks nothing. */
@@ -120,9 +121,13 @@ export async function checkoutUrl(deposit: LinkDeposit, origin: string): Promise
   if (deposit.orderStatus === "cancelled") throw new DepositError("This order was cancelled; no deposit is due.");
   const stripe = payments();
   if (deposit.checkoutSessionId) {
-    const open = await stripe.checkout.sessions.retrieve(deposit.checkoutSessionId);
-    if (open.status === "open" && open.url) return open.url;
-    if (open.status === "complete") throw new DepositError("This deposit is paid; the shop's records catch up in a moment.");
+    const open = await stripe.checkout.sessions.retrieve(deposit.checkoutSessionId).catch((error) => {
+      // A session the service no longer knows is replaced like an expired one.
+      if (error instanceof Stripe.errors.StripeInvalidRequestError && error.statusCode === 404) return null;
+      throw error;
+    });
+    if (open?.status === "open" && open.url) return open.url;
+    if (open?.status === "complete") throw new DepositError("This deposit is paid; the shop's records catch up in a moment.");
   }
   const back = `${origin}/pay/${deposit.linkToken}`;
   const metadata = { shopId: deposit.shopId, depositId: deposit.id, orderId: deposit.orderId };

@@ -1,4 +1,4 @@
-import { data, Link } from "react-router";
+import { data, isRouteErrorResponse, Link } from "react-router";
 import type { Route } from "./+types/pay.$token";
 import { AuthCard, FormAlert } from "~/components/forms";
 import { formatMoney } from "~/lib/money";
@@ -19,12 +19,13 @@ export async function loader({ params, request }: Route.LoaderArgs) {
     state: deposit.status !== "requested" || justPaid ? ("paid" as const) : deposit.orderStatus === "cancelled" ? ("cancelled-order" as const) : ("due" as const),
     refunded: deposit.status === "refunded",
     cameBackCancelled: url.searchParams.get("cancelled") === "1",
+    serviceDown: url.searchParams.get("unavailable") === "1",
     token: deposit.linkToken,
   };
 }
 
 export default function PayDeposit({ loaderData }: Route.ComponentProps) {
-  const { shopName, orderNumber, amount, state, refunded, cameBackCancelled, token } = loaderData;
+  const { shopName, orderNumber, amount, state, refunded, cameBackCancelled, serviceDown, token } = loaderData;
   return (
     <AuthCard title={`Deposit for order #${orderNumber}`} footer={<>Payments are taken by the shop's payment service; Stopwise never sees card details.</>}>
       <p>
@@ -40,6 +41,7 @@ export default function PayDeposit({ loaderData }: Route.ComponentProps) {
       {state === "due" && (
         <>
           {cameBackCancelled && <FormAlert tone="warn">No payment was taken. You can pay whenever you are ready with the same link.</FormAlert>}
+          {serviceDown && <FormAlert>The payment service could not be reached. Nothing was charged; try again in a moment.</FormAlert>}
           <Link
             to={`/pay/${token}/checkout`}
             reloadDocument
@@ -49,6 +51,18 @@ export default function PayDeposit({ loaderData }: Route.ComponentProps) {
           </Link>
         </>
       )}
+    </AuthCard>
+  );
+}
+
+// A customer is not signed in: the shell's error page (with its way home) would lead them to sign-in.
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  const known = isRouteErrorResponse(error) && error.status < 500;
+  return (
+    <AuthCard title={known && error.status === 404 ? "This payment link is not known" : "The payment page could not be shown"}>
+      <FormAlert tone="warn">
+        {known && typeof error.data === "string" ? error.data : "Nothing was charged. Try the link again in a moment; if it keeps failing, reply to the shop's e-mail."}
+      </FormAlert>
     </AuthCard>
   );
 }

@@ -11,6 +11,7 @@ import { createShop, signIn, type TestShop } from "../support/factories";
 import { createCatalogue } from "../support/order-factories";
 import { linkIn, waitForMail, mailTo } from "../support/outbox";
 import { deliver, eventBody, payOnFake, retrieveSession, sign } from "../support/payments";
+import { freePort, startApp } from "../support/server";
 import { getDb } from "~/db.server";
 import { depositLedger } from "~/models/deposit-ledger.server";
 import { createOrder } from "~/models/orders.server";
@@ -196,6 +197,33 @@ describe("deposits", () => {
     const [deposit] = await db.select().from(t.deposits).where(eq(t.deposits.orderId, order.id));
     expect(deposit.status).toBe("requested");
     expect((await request(server).get("/pay/no-such-link-token-at-all-0000")).status).toBe(404);
+  });
+
+  it("a checkout session the payment service no longer knows (a restarted fake, a purged session) is replaced by a new one", async () => {
+    const order = await draftOrder();
+    const deposit = await confirmWithDeposit(order.id);
+    await db.update(t.deposits).set({ checkoutSessionId: "cs_fake_forgotten" }).where(eq(t.deposits.id, deposit.id));
+    const res = await request(server).get(`/pay/${deposit.linkToken}/checkout`);
+    expect(res.status).toBe(302);
+    const fresh = (await depositRow(deposit.id)).checkoutSessionId!;
+    expect(fresh).not.toBe("cs_fake_forgotten");
+    expect(res.headers.location).toMatch(new RegExp(`/pay/${fresh}$`));
+  });
+
+  it("when the payment service cannot be reached, the customer is sent back to the deposit's page with a plain message", async () => {
+    const order = await draftOrder();
+    const deposit = await confirmWithDeposit(order.id);
+    const app = await startApp({ STRIPE_API_PORT: String(await freePort()) }); // nothing listens there
+    try {
+      const res = await fetch(`${app.url}/pay/${deposit.linkToken}/checkout`, { redirect: "manual" });
+      expect(res.status).toBe(302);
+      expect(res.headers.get("location")).toBe(`/pay/${deposit.linkToken}?unavailable=1`);
+      const page = visible(await (await fetch(`${app.url}/pay/${deposit.linkToken}?unavailable=1`)).text());
+      expect(page).toContain("The payment service could not be reached. Nothing was charged");
+      expect((await depositRow(deposit.id)).checkoutSessionId).toBeNull();
+    } finally {
+      await app.stop();
+    }
   });
 
   it("the bookkeeper's deposits ledger lists each order's deposit and balance, per month, and its CSV parses back to the same figures", async () => {
