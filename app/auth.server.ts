@@ -6,6 +6,7 @@ import { sessions, shops, users } from "../db/schema";
 import { userContext, type SignedInUser } from "~/context";
 import { getDb, isDatabaseUnavailable } from "~/db.server";
 import { can, deniedMessage, type Permission, type Role } from "~/lib/permissions";
+import { timed } from "~/timing.server";
 
 // Sessions expire 12 hours after the last renewal; lucia renews (a new expiry, same id) once half of
 // that has passed, so a day at the saw keeps one session while an idle one ends (OWASP ASVS 4.0.3 V3.3.2).
@@ -98,10 +99,10 @@ export const sessionMiddleware: MiddlewareFunction<Response> = async ({ request,
   let user: SignedInUser | null = null;
   if (sessionId) {
     try {
-      const { session } = await auth().validateSession(sessionId);
+      const { session } = await timed("session", () => auth().validateSession(sessionId));
       if (!session) setCookie = blankSessionCookie(request);
       else {
-        user = await loadUser(session.userId);
+        user = await timed("session", () => loadUser(session.userId));
         if (session.fresh) setCookie = serialize(auth().createSessionCookie(session.id), request);
       }
     } catch (error) {

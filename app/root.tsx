@@ -1,10 +1,11 @@
 import { isRouteErrorResponse, Link, Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
 import type { Route } from "./+types/root";
 import { sessionMiddleware } from "./auth.server";
+import { timingMiddleware } from "./timing.server";
 import "./app.css";
 
-// Every request: cross-site check, then who is signed in (app/auth.server.ts).
-export const middleware: Route.MiddlewareFunction[] = [sessionMiddleware];
+// Every request: phase timings when asked for (app/timing.server.ts), cross-site check, then who is signed in (app/auth.server.ts).
+export const middleware: Route.MiddlewareFunction[] = [timingMiddleware, sessionMiddleware];
 
 export function Layout({ children }: { children: React.ReactNode }) {
   return (

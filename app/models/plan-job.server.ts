@@ -2,7 +2,7 @@ import { and, eq, inArray } from "drizzle-orm";
 import { createHash } from "node:crypto";
 import { offcuts, sleds, stockPanels, type PlanSettings } from "../../db/schema";
 import { getDb } from "~/db.server";
-import { mergeBatchParts, type MergedPart } from "~/lib/batch-parts";
+import { mergeBatchParts, type BatchSource, type MergedPart } from "~/lib/batch-parts";
 import { nestLaserParts, type LaserBlank } from "~/lib/laser-blanks";
 import { umToMm } from "~/lib/packing";
 import type { Job, PartInput, StockInput } from "~/lib/packing/types";
@@ -32,7 +32,12 @@ function nestCached(laser: MergedPart[], shop: ShopSettings) {
 
 /** What a batch cuts: its merged sawn parts, and its laser items nested onto bed-sized blanks. */
 export async function batchCutList(batchId: string, shop: ShopSettings): Promise<BatchCutList> {
-  const merged = mergeBatchParts(await batchSources(batchId));
+  return cutListOf(await batchSources(batchId), shop);
+}
+
+/** The cut list of a batch's sources (from `batchSources`), for callers that read them alongside other queries. */
+export function cutListOf(sources: BatchSource[], shop: ShopSettings): BatchCutList {
+  const merged = mergeBatchParts(sources);
   const laser = merged.filter((p) => p.process === "laser");
   const nested = laser.length ? nestCached(laser, shop) : { blanks: [], unplaced: [] };
   return { sawn: merged.filter((p) => p.process === "saw"), laser, blanks: nested.blanks, laserUnplaced: nested.unplaced };

@@ -15,29 +15,33 @@ import { can } from "~/lib/permissions";
 import { PlanSettingsSchema } from "~/lib/plan-settings";
 import { formatLength, formatSize } from "~/lib/units";
 import { publicOrigin, sendMail } from "~/mail.server";
-import { BatchStateError, getBatch, holdLine, moveLine, siblingBatches } from "~/models/batches.server";
+import { batchSources, BatchStateError, getBatch, holdLine, moveLine, siblingBatches } from "~/models/batches.server";
 import { rackedOffcuts } from "~/models/rack.server";
-import { batchCutList } from "~/models/plan-job.server";
+import { cutListOf } from "~/models/plan-job.server";
 import { cancelPlan, listPlans, PlanStateError, releasePlan, requestPlan, sawyersOf, type PlanSummary } from "~/models/plans.server";
 import { getShop } from "~/models/shops.server";
 import { listSaws, listSleds } from "~/models/sleds.server";
+import { timed } from "~/timing.server";
 
 const Uuid = v.pipe(v.string(), v.uuid());
 const ORIGINS_SHOWN = 40;
 
 export async function loader(args: Route.LoaderArgs) {
   const user = requirePermission(args, "batches:read");
-  const batch = v.is(Uuid, args.params.batchId) ? await getBatch(user.shopId, args.params.batchId) : null;
+  const batch = v.is(Uuid, args.params.batchId) ? await timed("queries", () => getBatch(user.shopId, args.params.batchId)) : null;
   if (!batch) throw data("No such batch in this shop.", { status: 404 });
-  const shop = await getShop(user.shopId);
-  const [cutList, plans, siblings, offcuts, saws, sleds] = await Promise.all([
-    batchCutList(batch.id, shop),
-    listPlans(user.shopId, batch.id),
-    siblingBatches(user.shopId, batch.id, batch.materialId),
-    rackedOffcuts(user.shopId, batch.materialId),
-    listSaws(user.shopId),
-    listSleds(user.shopId),
-  ]);
+  const [shop, sources, plans, siblings, offcuts, saws, sleds] = await timed("queries", () =>
+    Promise.all([
+      getShop(user.shopId),
+      batchSources(batch.id),
+      listPlans(user.shopId, batch.id),
+      siblingBatches(user.shopId, batch.id, batch.materialId),
+      rackedOffcuts(user.shopId, batch.materialId),
+      listSaws(user.shopId),
+      listSleds(user.shopId),
+    ]),
+  );
+  const cutList = await timed("merge", () => cutListOf(sources, shop));
   const unit = shop.displayUnit;
   const parts = cutList.sawn.map((p) => ({
     key: p.key,

@@ -12,12 +12,13 @@ import { ORDER_STATUSES, STATUS_LABELS } from "~/lib/order-status";
 import { can } from "~/lib/permissions";
 import { listOrders, orderListQuery, type OrderListRow, type OrderSort } from "~/models/orders.server";
 import { getShop } from "~/models/shops.server";
+import { timed } from "~/timing.server";
 
 // The first page comes from the loader (usable before scripts run); swr then keeps it fresh from /api/orders.
 export async function loader(args: Route.LoaderArgs) {
   const user = requirePermission(args, "orders:read");
   const query = orderListQuery(args.request);
-  const [{ rows, total }, shop] = await Promise.all([listOrders(user.shopId, query), getShop(user.shopId)]);
+  const [{ rows, total }, shop] = await timed("queries", () => Promise.all([listOrders(user.shopId, query), getShop(user.shopId)]));
   return { page: { rows, total, query }, currency: shop.currency, canWrite: can(user.role, "orders:write") };
 }
 
