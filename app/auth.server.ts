@@ -1,5 +1,5 @@
 import { DrizzlePostgreSQLAdapter } from "@lucia-auth/adapter-drizzle";
-import { Cookie, Lucia, TimeSpan } from "lucia";
+import { Cookie, Lucia, TimeSpan, type DatabaseSession, type DatabaseUser } from "lucia";
 import { data, redirect, type MiddlewareFunction, type RouterContextProvider } from "react-router";
 import { eq } from "drizzle-orm";
 import { sessions, shops, users } from "../db/schema";
@@ -12,12 +12,42 @@ import { timed } from "~/timing.server";
 // that has passed, so a day at the saw keeps one session while an idle one ends (OWASP ASVS 4.0.3 V3.3.2).
 const SESSION_LIFETIME = new TimeSpan(12, "h");
 
-let lucia: Lucia | undefined;
-function auth(): Lucia {
-  lucia ??= new Lucia(new DrizzlePostgreSQLAdapter(getDb(), sessions, users), {
+/**
+ * lucia's Drizzle adapter, except that the session is read with its user and the shop's name in one
+ * query: every request asks this, and a second round trip for the user's row cost as much again.
+ */
+class SessionAdapter extends DrizzlePostgreSQLAdapter {
+  override async getSessionAndUser(sessionId: string): Promise<[DatabaseSession | null, DatabaseUser | null]> {
+    const [row] = await getDb()
+      .select({ id: sessions.id, userId: sessions.userId, expiresAt: sessions.expiresAt, shopId: users.shopId, shopName: shops.name, email: users.email, name: users.name, role: users.role })
+      .from(sessions)
+      .innerJoin(users, eq(users.id, sessions.userId))
+      .innerJoin(shops, eq(shops.id, users.shopId))
+      .where(eq(sessions.id, sessionId));
+    if (!row) return [null, null];
+    const { id, userId, expiresAt, ...attributes } = row;
+    return [{ id, userId, expiresAt, attributes: {} }, { id: userId, attributes }];
+  }
+}
+
+function createLucia() {
+  return new Lucia(new SessionAdapter(getDb(), sessions, users), {
     sessionExpiresIn: SESSION_LIFETIME,
     sessionCookie: { name: "stopwise_session", expires: true, attributes: { sameSite: "lax", path: "/" } },
+    getUserAttributes: ({ shopId, shopName, email, name, role }) => ({ shopId, shopName, email, name, role }),
   });
+}
+
+declare module "lucia" {
+  interface Register {
+    Lucia: ReturnType<typeof createLucia>;
+    DatabaseUserAttributes: Omit<SignedInUser, "id">;
+  }
+}
+
+let lucia: ReturnType<typeof createLucia> | undefined;
+function auth() {
+  lucia ??= createLucia();
   return lucia;
 }
 
@@ -46,15 +76,6 @@ export async function invalidateSession(sessionId: string): Promise<void> {
 
 export async function invalidateUserSessions(userId: string): Promise<void> {
   await auth().invalidateUserSessions(userId);
-}
-
-async function loadUser(userId: string): Promise<SignedInUser | null> {
-  const [row] = await getDb()
-    .select({ id: users.id, shopId: users.shopId, shopName: shops.name, email: users.email, name: users.name, role: users.role })
-    .from(users)
-    .innerJoin(shops, eq(shops.id, users.shopId))
-    .where(eq(users.id, userId));
-  return row ?? null;
 }
 
 const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
@@ -99,11 +120,11 @@ export const sessionMiddleware: MiddlewareFunction<Response> = async ({ request,
   let user: SignedInUser | null = null;
   if (sessionId) {
     try {
-      const { session } = await timed("session", () => auth().validateSession(sessionId));
-      if (!session) setCookie = blankSessionCookie(request);
+      const validated = await timed("session", () => auth().validateSession(sessionId));
+      if (!validated.session) setCookie = blankSessionCookie(request);
       else {
-        user = await timed("session", () => loadUser(session.userId));
-        if (session.fresh) setCookie = serialize(auth().createSessionCookie(session.id), request);
+        user = validated.user;
+        if (validated.session.fresh) setCookie = serialize(auth().createSessionCookie(validated.session.id), request);
       }
     } catch (error) {
       // While PostgreSQL restarts, say so plainly (503) instead of failing with a 500.

@@ -12,6 +12,7 @@ export default [
   route("pay/:token/checkout", "routes/pay.$token.checkout.ts"),
   route("api/batches/:batchId/plans", "routes/api.batches.$batchId.plans.ts"),
   route("api/batches/:batchId/floor", "routes/api.batches.$batchId.floor.ts"),
+  route("api/batches/:batchId/origins", "routes/api.batches.$batchId.origins.ts"),
   route("batches/:batchId/setup-sheet", "routes/batches.$batchId.setup-sheet.ts"),
   route("batches/:batchId/labels", "routes/batches.$batchId.labels.ts"),
   route("orders/:orderId/files/:fileId", "routes/orders.$orderId.files.$fileId.ts"),

@@ -3,6 +3,10 @@
 import { parentPort, workerData } from "node:worker_threads";
 import { pack } from "../lib/packing/index";
 import type { Job } from "../lib/packing/types";
+import { lowerThisThreadPriority } from "./thread-priority";
+
+// While a plan searches, the server's threads keep answering pages first (issue 6's latency target).
+lowerThisThreadPriority();
 
 const job = (workerData as { job: Job }).job;
 const plan = pack(job, { onProgress: ({ bestSheets }) => parentPort!.postMessage({ type: "progress", bestSheets }) });

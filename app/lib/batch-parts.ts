@@ -158,3 +158,8 @@ export function spoiledOrigins(origins: PartOrigin[], item: number | null, quant
   }
   return { ok: true, origins: origins.slice(chosen.first, chosen.first + quantity) };
 }
+
+/** "#1042 Ardent Events · Table number · Table 7": one copy's order, customer, product and text. */
+export function describeOrigin(o: PartOrigin): string {
+  return `#${o.orderNumber} ${o.customerName} · ${o.productName}${o.text ? ` · ${o.text}` : ""}`;
+}

@@ -21,9 +21,18 @@ export function todayIso(now = new Date()): string {
 
 const LONG = new Intl.DateTimeFormat("en-GB", { weekday: "short", day: "numeric", month: "short", year: "numeric", timeZone: "UTC" });
 
+// Lists show the same few dates over and over; a small memo spares the formatter (bounded: cleared when full).
+const formatted = new Map<string, string>();
+
 /** "Sat 16 Jan 2027" */
 export function formatDate(isoDate: string): string {
-  return LONG.format(new Date(`${isoDate}T00:00:00Z`));
+  let text = formatted.get(isoDate);
+  if (text === undefined) {
+    text = LONG.format(new Date(`${isoDate}T00:00:00Z`));
+    if (formatted.size >= 2000) formatted.clear();
+    formatted.set(isoDate, text);
+  }
+  return text;
 }
 
 /** Default due date: the longest lead time of the ordered products before the event (14 days when none says). */

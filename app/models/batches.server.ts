@@ -133,31 +133,34 @@ export async function listHeldLines(shopId: string) {
 
 export async function getBatch(shopId: string, batchId: string) {
   const db = getDb();
-  const [batch] = await db
-    .select({
-      id: batches.id,
-      number: batches.number,
-      status: batches.status,
-      dueBy: batches.dueBy,
-      chosenPlanId: batches.chosenPlanId,
-      releasedAt: batches.releasedAt,
-      materialId: materials.id,
-      materialName: materials.name,
-      thicknessUm: materials.thicknessUm,
-    })
-    .from(batches)
-    .innerJoin(materials, eq(materials.id, batches.materialId))
-    .where(and(eq(batches.id, batchId), eq(batches.shopId, shopId)));
+  // Both reads at once; the lines count only when the batch is this shop's.
+  const [[batch], lines] = await Promise.all([
+    db
+      .select({
+        id: batches.id,
+        number: batches.number,
+        status: batches.status,
+        dueBy: batches.dueBy,
+        chosenPlanId: batches.chosenPlanId,
+        releasedAt: batches.releasedAt,
+        materialId: materials.id,
+        materialName: materials.name,
+        thicknessUm: materials.thicknessUm,
+      })
+      .from(batches)
+      .innerJoin(materials, eq(materials.id, batches.materialId))
+      .where(and(eq(batches.id, batchId), eq(batches.shopId, shopId))),
+    db
+      .select({ lineId: orderLines.id, orderId: orders.id, orderNumber: orders.number, customerName: customers.name, productName: products.name, quantity: orderLines.quantity, dueDate: orders.dueDate })
+      .from(batchLines)
+      .innerJoin(orderLines, eq(orderLines.id, batchLines.orderLineId))
+      .innerJoin(orders, eq(orders.id, orderLines.orderId))
+      .innerJoin(customers, eq(customers.id, orders.customerId))
+      .innerJoin(products, eq(products.id, orderLines.productId))
+      .where(eq(batchLines.batchId, batchId))
+      .orderBy(asc(orders.number), asc(products.name)),
+  ]);
   if (!batch) return null;
-  const lines = await db
-    .select({ lineId: orderLines.id, orderId: orders.id, orderNumber: orders.number, customerName: customers.name, productName: products.name, quantity: orderLines.quantity, dueDate: orders.dueDate })
-    .from(batchLines)
-    .innerJoin(orderLines, eq(orderLines.id, batchLines.orderLineId))
-    .innerJoin(orders, eq(orders.id, orderLines.orderId))
-    .innerJoin(customers, eq(customers.id, orders.customerId))
-    .innerJoin(products, eq(products.id, orderLines.productId))
-    .where(eq(batchLines.batchId, batch.id))
-    .orderBy(asc(orders.number), asc(products.name));
   return { ...batch, code: batchCode(batch.number), lines };
 }
 

@@ -24,23 +24,18 @@ import { listSaws, listSleds } from "~/models/sleds.server";
 import { timed } from "~/timing.server";
 
 const Uuid = v.pipe(v.string(), v.uuid());
-const ORIGINS_SHOWN = 40;
+const HOLD_FORM = "hold-line";
 
 export async function loader(args: Route.LoaderArgs) {
   const user = requirePermission(args, "batches:read");
-  const batch = v.is(Uuid, args.params.batchId) ? await timed("queries", () => getBatch(user.shopId, args.params.batchId)) : null;
-  if (!batch) throw data("No such batch in this shop.", { status: 404 });
-  const [shop, sources, plans, siblings, offcuts, saws, sleds] = await timed("queries", () =>
-    Promise.all([
-      getShop(user.shopId),
-      batchSources(batch.id),
-      listPlans(user.shopId, batch.id),
-      siblingBatches(user.shopId, batch.id, batch.materialId),
-      rackedOffcuts(user.shopId, batch.materialId),
-      listSaws(user.shopId),
-      listSleds(user.shopId),
-    ]),
+  if (!v.is(Uuid, args.params.batchId)) throw data("No such batch in this shop.", { status: 404 });
+  const batchId = args.params.batchId;
+  // Everything that needs only the ids at once; what is read for another shop's id is thrown away.
+  const [batch, shop, sources, plans, saws, sleds] = await timed("queries", () =>
+    Promise.all([getBatch(user.shopId, batchId), getShop(user.shopId), batchSources(batchId), listPlans(user.shopId, batchId), listSaws(user.shopId), listSleds(user.shopId)]),
   );
+  if (!batch) throw data("No such batch in this shop.", { status: 404 });
+  const [siblings, offcuts] = await timed("queries", () => Promise.all([siblingBatches(user.shopId, batch.id, batch.materialId), rackedOffcuts(user.shopId, batch.materialId)]));
   const cutList = await timed("merge", () => cutListOf(sources, shop));
   const unit = shop.displayUnit;
   const parts = cutList.sawn.map((p) => ({
@@ -49,8 +44,7 @@ export async function loader(args: Route.LoaderArgs) {
     size: formatSize(p.lengthUm, p.widthUm, unit),
     grainLocked: p.grainLocked,
     quantity: p.quantity,
-    // The page lists the first origins of a row; the plan view and labels carry all of them.
-    origins: p.origins.slice(0, ORIGINS_SHOWN).map((o) => `#${o.orderNumber} ${o.customerName} · ${o.productName}${o.text ? ` · ${o.text}` : ""}`),
+    // Counts only: a row's origins are read when it is opened (PartOrigins), so the page stays small.
     orders: new Set(p.origins.map((o) => o.orderId)).size,
   }));
   return {
@@ -137,6 +131,39 @@ const fetchPlans = async (url: string): Promise<{ plans: PlanSummary[] }> => {
   return res.json();
 };
 
+type Origins = { part: string; quantity: number; origins: string[] };
+
+const fetchOrigins = async (url: string): Promise<Origins> => {
+  const res = await fetch(url, { headers: { Accept: "application/json" } });
+  if (!res.ok) throw new Error(`The orders of this part could not be loaded (${res.status}).`);
+  return res.json();
+};
+
+/** "20 from 3 orders"; opening it reads which orders, copies and texts the row is for. */
+function PartOrigins({ batchId, part }: { batchId: string; part: { key: string; quantity: number; orders: number } }) {
+  const [open, setOpen] = useState(false);
+  const { data, error } = useSWR(open ? `/api/batches/${batchId}/origins?part=${encodeURIComponent(part.key)}` : null, fetchOrigins);
+  return (
+    <details onToggle={(e) => setOpen(e.currentTarget.open)}>
+      <summary className="cursor-pointer text-muted">
+        {part.quantity} from {part.orders} order{part.orders === 1 ? "" : "s"}
+      </summary>
+      {error ? (
+        <p className="mt-1 text-xs text-bad">{error.message}</p>
+      ) : !data ? (
+        <p className="mt-1 text-xs text-muted">Loading the orders…</p>
+      ) : (
+        <ul className="mt-1 max-h-48 space-y-0.5 overflow-y-auto text-xs">
+          {data.origins.map((o, i) => (
+            <li key={i}>{o}</li>
+          ))}
+          {data.quantity > data.origins.length && <li className="text-muted">… and {data.quantity - data.origins.length} more (all of them are on the labels)</li>}
+        </ul>
+      )}
+    </details>
+  );
+}
+
 export default function BatchPage({ loaderData, actionData }: Route.ComponentProps) {
   const { batch, parts, laser, siblings, offcuts, defaults, unit, currency, canWrite, saws, sleds } = loaderData;
   const errors: Record<string, string> = actionData?.errors ?? {};
@@ -200,17 +227,7 @@ export default function BatchPage({ loaderData, actionData }: Route.ComponentPro
                     <td className="px-4 py-3">{p.grainLocked ? "along the length" : "free"}</td>
                     <td className="px-4 py-3 text-right font-semibold tabular-nums">{p.quantity}</td>
                     <td className="px-4 py-3">
-                      <details>
-                        <summary className="cursor-pointer text-muted">
-                          {p.quantity} from {p.orders} order{p.orders === 1 ? "" : "s"}
-                        </summary>
-                        <ul className="mt-1 max-h-48 space-y-0.5 overflow-y-auto text-xs">
-                          {p.origins.map((o, i) => (
-                            <li key={i}>{o}</li>
-                          ))}
-                          {p.quantity > p.origins.length && <li className="text-muted">… and {p.quantity - p.origins.length} more</li>}
-                        </ul>
-                      </details>
+                      <PartOrigins batchId={batch.id} part={p} />
                     </td>
                   </tr>
                 ))}
@@ -252,14 +269,22 @@ export default function BatchPage({ loaderData, actionData }: Route.ComponentPro
 
       <section className="space-y-3">
         <h2 className="text-xl font-semibold">Order lines</h2>
+        {/* One form for every line's "Hold back" button (each names its line): a batch has a hundred lines. */}
+        {editable && (
+          <Form method="post" id={HOLD_FORM} hidden>
+            <input type="hidden" name="intent" value="hold-line" />
+          </Form>
+        )}
         <ul className="divide-y divide-line rounded-lg border border-line bg-card">
           {batch.lines.map((l) => (
             <li key={l.lineId} className="flex flex-wrap items-center justify-between gap-3 px-4 py-3">
               <span>
+                {/* One text node per phrase: a hundred lines' worth of React's separators add up. */}
                 <Link to={`/orders/${l.orderId}`} className="font-semibold text-edge hover:underline">
-                  #{l.orderNumber}
-                </Link>{" "}
-                {l.customerName}: {l.quantity} × {l.productName} <span className="text-sm text-muted">· due {formatDate(l.dueDate)}</span>
+                  {`#${l.orderNumber}`}
+                </Link>
+                {` ${l.customerName}: ${l.quantity} × ${l.productName} `}
+                <span className="text-sm text-muted">{`· due ${formatDate(l.dueDate)}`}</span>
               </span>
               {editable && (
                 <span className="flex flex-wrap items-end gap-2">
@@ -279,13 +304,9 @@ export default function BatchPage({ loaderData, actionData }: Route.ComponentPro
                       </button>
                     </Form>
                   )}
-                  <Form method="post">
-                    <input type="hidden" name="intent" value="hold-line" />
-                    <input type="hidden" name="lineId" value={l.lineId} />
-                    <button type="submit" className="min-h-11 rounded-md border border-line bg-white px-3 text-sm font-medium hover:border-edge">
-                      Hold back
-                    </button>
-                  </Form>
+                  <button type="submit" form={HOLD_FORM} name="lineId" value={l.lineId} className="min-h-11 rounded-md border border-line bg-white px-3 text-sm font-medium hover:border-edge">
+                    Hold back
+                  </button>
                 </span>
               )}
             </li>

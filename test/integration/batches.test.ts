@@ -63,6 +63,30 @@ describe("proposing and adjusting batches", () => {
     expect(parts.find((p) => p.name === "Sign face")!.quantity).toBe(1);
   });
 
+  it("the batch page ships each row's counts; opening a row reads its copies and texts from the API", async () => {
+    const [six] = await db.select().from(t.batches).where(and(eq(t.batches.shopId, s.shop.id), eq(t.batches.materialId, s.birch6.id)));
+    const planner = await signIn(server, s.shop.users.planner);
+    const page = await request(server).get(`/batches/${six.id}`).set("Cookie", planner);
+    expect(visible(page.text)).toContain("5 from 2 orders");
+    expect(page.text).not.toContain("Table B"); // neither in the markup nor in the loader's data
+    const key = "saw:210000x150000:locked";
+    const origins = await request(server).get(`/api/batches/${six.id}/origins?part=${encodeURIComponent(key)}`).set("Cookie", planner);
+    expect(origins.status).toBe(200);
+    expect(origins.body).toEqual({
+      part: key,
+      quantity: 5,
+      origins: [
+        ...["Table 1", "Table 2", "Table 3"].map((text) => `#${s.wedding.number} Ardent–Vasquez wedding · Table number · ${text}`),
+        ...["Table A", "Table B"].map((text) => `#${s.party.number} Penhaligon party · Table number · ${text}`),
+      ],
+    });
+    const unknown = await request(server).get(`/api/batches/${six.id}/origins?part=saw:1x1:free`).set("Cookie", planner);
+    expect(unknown.status).toBe(404);
+    expect(unknown.body.error).toMatch(/^part: /);
+    const stranger = await signIn(server, (await createShop("Stranger")).users.planner);
+    expect((await request(server).get(`/api/batches/${six.id}/origins?part=${encodeURIComponent(key)}`).set("Cookie", stranger)).status).toBe(404);
+  });
+
   it("moves a line to another batch of the same material, and holds one back out of proposals until released", async () => {
     const [six] = await db.select().from(t.batches).where(and(eq(t.batches.shopId, s.shop.id), eq(t.batches.materialId, s.birch6.id)));
     const [second] = await createBatchFor(s.shop.id, s.birch6.id);

@@ -62,6 +62,7 @@ const MATRIX: Record<string, Entry> = {
   "/rack": { get: page("owner", "planner", "sawyer", "bookkeeper"), post: { ...page("owner", "planner", "sawyer"), owner: 400, planner: 400, sawyer: 400 } },
   "/saw": { get: page("owner", "planner", "sawyer"), post: NO_ACTION },
   "/saw/:batchId": { get: notFoundFor("owner", "planner", "sawyer"), post: notFoundFor("owner", "sawyer"), sample: `/saw/${MISSING}` },
+  "/api/batches/:batchId/origins": { get: { ...notFoundFor("owner", "planner", "sawyer", "bookkeeper"), signedOut: 401 }, post: NO_ACTION, sample: `/api/batches/${MISSING}/origins?part=saw:1x1:free` },
   "/api/batches/:batchId/floor": { get: { ...notFoundFor("owner", "planner", "sawyer"), signedOut: 401 }, post: { ...notFoundFor("owner", "sawyer"), signedOut: 401 }, sample: `/api/batches/${MISSING}/floor` },
   "/batches/:batchId/setup-sheet": { get: notFoundFor("owner", "planner", "sawyer"), post: NO_ACTION, sample: `/batches/${MISSING}/setup-sheet` },
   "/batches/:batchId/labels": { get: notFoundFor("owner", "planner", "sawyer"), post: NO_ACTION, sample: `/batches/${MISSING}/labels` },
