@@ -3,6 +3,7 @@
 import { createRequestHandler } from "@react-router/express";
 import compression from "compression";
 import express from "express";
+import { extname } from "node:path";
 import { fileURLToPath } from "node:url";
 
 const root = fileURLToPath(new URL("..", import.meta.url));
@@ -16,7 +17,9 @@ const app = express();
 app.disable("x-powered-by");
 app.use(compression());
 app.use("/assets", express.static(`${buildDir}/client/assets`, { immutable: true, maxAge: "1y" }));
-app.use(express.static(`${buildDir}/client`, { maxAge: "1h", index: false }));
+// The other public files (favicon.svg) have an extension; pages have none and skip the file look-up.
+const publicFiles = express.static(`${buildDir}/client`, { maxAge: "1h", index: false });
+app.use((req, res, next) => (extname(req.path) ? publicFiles(req, res, next) : next()));
 // The app reads the client's address from this header for rate limits; whatever a client sent is replaced.
 app.use((req, _res, next) => {
   req.headers["x-stopwise-client-address"] = req.socket.remoteAddress ?? "unknown";
