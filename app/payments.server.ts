@@ -47,3 +47,8 @@ export function paymentErrorMessage(error: unknown): string {
   if (error instanceof Stripe.errors.StripeError) return error.message || error.type;
   return error instanceof Error ? error.message : String(error);
 }
+
+/** The service answered and said no (4xx), as against not answering at all. */
+export function refusedByService(error: unknown): boolean {
+  return error instanceof Stripe.errors.StripeError && typeof error.statusCode === "number" && error.statusCode >= 400 && error.statusCode < 500;
+}

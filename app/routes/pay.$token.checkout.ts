@@ -2,6 +2,7 @@ import { redirect } from "react-router";
 import type { Route } from "./+types/pay.$token.checkout";
 import { publicOrigin } from "~/mail.server";
 import { checkoutUrl, depositByToken, DepositError } from "~/models/deposits.server";
+import { refusedByService } from "~/payments.server";
 
 // Following the "Pay" link opens the payment service's checkout page. It is a link (GET), like the
 // service's own payment links, so the page's form-action policy never blocks the hop to another
@@ -17,6 +18,7 @@ export async function loader({ params, request }: Route.LoaderArgs) {
   } catch (error) {
     if (error instanceof DepositError) return redirect(back);
     console.error("checkout session:", error);
-    return redirect(`${back}?unavailable=1`);
+    // Refused (a bad amount, a wrong key) is the shop's to fix; unreachable is worth a retry.
+    return redirect(`${back}?${refusedByService(error) ? "refused" : "unavailable"}=1`);
   }
 }

@@ -20,12 +20,13 @@ export async function loader({ params, request }: Route.LoaderArgs) {
     refunded: deposit.status === "refunded",
     cameBackCancelled: url.searchParams.get("cancelled") === "1",
     serviceDown: url.searchParams.get("unavailable") === "1",
+    serviceRefused: url.searchParams.get("refused") === "1",
     token: deposit.linkToken,
   };
 }
 
 export default function PayDeposit({ loaderData }: Route.ComponentProps) {
-  const { shopName, orderNumber, amount, state, refunded, cameBackCancelled, serviceDown, token } = loaderData;
+  const { shopName, orderNumber, amount, state, refunded, cameBackCancelled, serviceDown, serviceRefused, token } = loaderData;
   return (
     <AuthCard title={`Deposit for order #${orderNumber}`} footer={<>Payments are taken by the shop's payment service; Stopwise never sees card details.</>}>
       <p>
@@ -42,6 +43,7 @@ export default function PayDeposit({ loaderData }: Route.ComponentProps) {
         <>
           {cameBackCancelled && <FormAlert tone="warn">No payment was taken. You can pay whenever you are ready with the same link.</FormAlert>}
           {serviceDown && <FormAlert>The payment service could not be reached. Nothing was charged; try again in a moment.</FormAlert>}
+          {serviceRefused && <FormAlert>The payment service would not open a checkout for this deposit. Nothing was charged; please reply to the shop's e-mail so they can sort it out.</FormAlert>}
           <Link
             to={`/pay/${token}/checkout`}
             reloadDocument

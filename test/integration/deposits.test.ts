@@ -210,7 +210,7 @@ describe("deposits", () => {
     expect(res.headers.location).toMatch(new RegExp(`/pay/${fresh}$`));
   });
 
-  it("when the payment service cannot be reached, the customer is sent back to the deposit's page with a plain message", async () => {
+  it("when the payment service cannot be reached or refuses, the customer is sent back to the deposit's page with a plain message", async () => {
     const order = await draftOrder();
     const deposit = await confirmWithDeposit(order.id);
     const app = await startApp({ STRIPE_API_PORT: String(await freePort()) }); // nothing listens there
@@ -223,6 +223,15 @@ describe("deposits", () => {
       expect((await depositRow(deposit.id)).checkoutSessionId).toBeNull();
     } finally {
       await app.stop();
+    }
+    // A service that answers "no" (here: the wrong key) is told apart from one that does not answer.
+    const refusing = await startApp({ STRIPE_SECRET_KEY: "sk_test_not_this_shops" });
+    try {
+      const res = await fetch(`${refusing.url}/pay/${deposit.linkToken}/checkout`, { redirect: "manual" });
+      expect(res.headers.get("location")).toBe(`/pay/${deposit.linkToken}?refused=1`);
+      expect(visible(await (await fetch(`${refusing.url}${res.headers.get("location")}`)).text())).toContain("would not open a checkout for this deposit");
+    } finally {
+      await refusing.stop();
     }
   });
 
