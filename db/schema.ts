@@ -372,7 +372,8 @@ export type PlanSettings = {
   offcutIds: string[];
   seed: number;
 };
-export type PlanProgress = { elapsedMs: number; bestSheets: number | null };
+// beatAt: the database clock at the runner's last tick, so any runner can tell a plan whose runner died.
+export type PlanProgress = { elapsedMs: number; bestSheets: number | null; beatAt?: string };
 
 export const plans = pgTable(
   "plans",

@@ -2,10 +2,10 @@
 // engine in a worker thread, reports progress to the plan row, and saves the plan once the validator
 // passes it. Started by bin/serve.ts next to the web server (and by tests); more runners may run on
 // other machines against the same database.
-import { and, eq, inArray } from "drizzle-orm";
+import { and, eq, inArray, isNull, notInArray, or, sql } from "drizzle-orm";
 import { Worker } from "node:worker_threads";
 import { batches, plans } from "../../db/schema";
-import { getDb } from "~/db.server";
+import { getDb, isDatabaseUnavailable } from "~/db.server";
 import { validatePlan } from "~/lib/packing";
 import type { Plan } from "~/lib/packing/types";
 import { getShop } from "~/models/shops.server";
@@ -14,18 +14,64 @@ import type { PlanResult } from "~/models/plans.server";
 import { PLAN_QUEUE, queue, type PlanJobData } from "./queue.server";
 
 const PROGRESS_EVERY_MS = 250;
+const SWEEP_EVERY_MS = 5000;
 const workerUrl = new URL("./pack-worker-entry.mjs", import.meta.url);
+
+// Plans this process is working on: the sweep never fails those, however long the database was away.
+const active = new Set<string>();
+let sweeper: NodeJS.Timeout | undefined;
+
+/** Seconds without a tick after which a running plan counts as abandoned (its runner died). */
+function staleAfterSeconds(): number {
+  const value = Number(process.env.STOPWISE_PLAN_STALE_SECONDS);
+  return Number.isFinite(value) && value > 0 ? value : 60;
+}
 
 export async function startPlanRunner(): Promise<void> {
   const boss = await queue();
   await boss.work<PlanJobData>(PLAN_QUEUE, { pollingIntervalSeconds: 0.5, batchSize: 1 }, async ([job]) => {
     await runPlan(job.data.planId);
   });
+  const sweep = () => failAbandonedPlans(staleAfterSeconds()).catch(() => {}); // the database may be away; next time
+  await sweep();
+  sweeper ??= setInterval(sweep, SWEEP_EVERY_MS);
+  sweeper.unref();
 }
 
 export async function stopPlanRunner(): Promise<void> {
+  clearInterval(sweeper);
+  sweeper = undefined;
   const boss = await queue();
   await boss.offWork(PLAN_QUEUE);
+}
+
+/**
+ * Marks failed, with the reason, the plans no runner is working on any more: running plans whose
+ * runner stopped ticking (killed, machine lost), and queued plans whose job never reached the queue.
+ * Returns how many it marked.
+ */
+export async function failAbandonedPlans(staleSeconds: number): Promise<number> {
+  const mine = [...active];
+  const rows = await getDb()
+    .update(plans)
+    .set({
+      status: "failed",
+      finishedAt: new Date(),
+      error: sql`case when ${plans.status} = 'running'
+        then ${`The plan runner stopped while working on this plan (no word from it for ${staleSeconds} s). Nothing was saved; run the plan again.`}
+        else ${"The plan never reached the queue (the database was away). Run the plan again."} end`,
+    })
+    .where(
+      and(
+        or(
+          and(eq(plans.status, "running"), sql`coalesce((${plans.progress}->>'beatAt')::timestamptz, ${plans.startedAt}) < now() - make_interval(secs => ${staleSeconds})`),
+          and(eq(plans.status, "queued"), isNull(plans.jobId), sql`${plans.createdAt} < now() - make_interval(secs => ${staleSeconds})`),
+        ),
+        mine.length ? notInArray(plans.id, mine) : undefined,
+      ),
+    )
+    .returning({ id: plans.id });
+  return rows.length;
 }
 
 type Outcome = { kind: "done"; plan: Plan } | { kind: "cancelled" } | { kind: "failed"; reason: string };
@@ -39,7 +85,17 @@ export async function runPlan(planId: string): Promise<void> {
     .where(and(eq(plans.id, planId), eq(plans.status, "queued")))
     .returning();
   if (!plan) return; // cancelled while queued, or taken by another runner
+  active.add(plan.id);
+  try {
+    await planAndSave(plan);
+  } finally {
+    active.delete(plan.id);
+  }
+}
 
+async function planAndSave(plan: typeof plans.$inferSelect): Promise<void> {
+  const db = getDb();
+  const planId = plan.id;
   let outcome: Outcome;
   let stockRefs: PlanResult["stockRefs"] = {};
   let blanks = 0;
@@ -59,9 +115,26 @@ export async function runPlan(planId: string): Promise<void> {
       }
     }
   } catch (error) {
-    outcome = { kind: "failed", reason: error instanceof Error ? error.message : String(error) };
+    const reason = isDatabaseUnavailable(error) ? "The database was away while the plan was being prepared. Run the plan again." : error instanceof Error ? error.message : String(error);
+    outcome = { kind: "failed", reason };
   }
-  await finish(plan.id, plan.batchId, outcome, stockRefs, blanks);
+  await untilDatabaseAnswers(() => finish(plan.id, plan.batchId, outcome, stockRefs, blanks));
+}
+
+const SAVE_PATIENCE_MS = 10 * 60_000;
+
+// A plan that took minutes is not thrown away because PostgreSQL restarted as it ended: the save
+// waits for the database (bounded), and the sweep fails the plan if this process dies meanwhile.
+async function untilDatabaseAnswers(write: () => Promise<void>): Promise<void> {
+  const giveUpAt = Date.now() + SAVE_PATIENCE_MS;
+  for (let wait = 250; ; wait = Math.min(wait * 2, 5000)) {
+    try {
+      return await write();
+    } catch (error) {
+      if (!isDatabaseUnavailable(error) || Date.now() > giveUpAt) throw error;
+      await new Promise((r) => setTimeout(r, wait));
+    }
+  }
 }
 
 function runInWorker(planId: string, job: import("~/lib/packing/types").Job): Promise<Outcome> {
@@ -76,14 +149,20 @@ function runInWorker(planId: string, job: import("~/lib/packing/types").Job): Pr
       clearInterval(ticker);
       resolve(outcome);
     };
-    // Every tick: write the progress, and stop the engine if the planner cancelled.
+    // Every tick: write the progress with the database's clock, and stop the engine if the planner
+    // cancelled. A tick still waiting on the database (it is away) is not stacked with more.
+    let ticking = false;
     const ticker = setInterval(async () => {
+      if (ticking) return;
+      ticking = true;
+      const progress = { elapsedMs: Date.now() - started, bestSheets };
       const [row] = await getDb()
         .update(plans)
-        .set({ progress: { elapsedMs: Date.now() - started, bestSheets } })
+        .set({ progress: sql`${JSON.stringify(progress)}::jsonb || jsonb_build_object('beatAt', now())` })
         .where(and(eq(plans.id, planId), eq(plans.status, "running")))
         .returning({ id: plans.id })
-        .catch(() => [{ id: planId }]); // a database hiccup is no reason to stop the engine
+        .catch(() => [{ id: planId }]) // a database hiccup is no reason to stop the engine
+        .finally(() => (ticking = false));
       if (!row) {
         await worker.terminate();
         done({ kind: "cancelled" });
