@@ -3,6 +3,7 @@
 import { readFileSync } from "node:fs";
 import { pack } from "../app/lib/packing/engine";
 import { parseJob } from "../app/lib/packing/job-schema";
+import { checkJobLimits } from "../app/lib/packing-limits";
 
 function fail(line: string, code = 2): never {
   process.stderr.write(line.replace(/\s+/g, " ").trim() + "\n");
@@ -29,6 +30,8 @@ function main() {
   }
   const parsed = parseJob(data);
   if (!parsed.ok) fail(parsed.error);
+  const bounded = checkJobLimits(parsed.job);
+  if (!bounded.ok) fail(bounded.error);
   let plan;
   try {
     plan = pack(parsed.job);

@@ -7,6 +7,7 @@ import { Worker } from "node:worker_threads";
 import { batches, plans } from "../../db/schema";
 import { getDb, isDatabaseUnavailable } from "~/db.server";
 import { validatePlan } from "~/lib/packing";
+import { checkJobLimits } from "~/lib/packing-limits";
 import type { Plan } from "~/lib/packing/types";
 import { getShop } from "~/models/shops.server";
 import { buildPackingJob } from "~/models/plan-job.server";
@@ -105,7 +106,9 @@ async function planAndSave(plan: typeof plans.$inferSelect): Promise<void> {
     const built = await buildPackingJob(shop, batch, plan.settings);
     stockRefs = built.stockRefs;
     blanks = built.cutList.blanks.length;
-    if (built.job.parts.length === 0) outcome = { kind: "failed", reason: "The batch has no parts to cut." };
+    const bounded = checkJobLimits(built.job);
+    if (!bounded.ok) outcome = { kind: "failed", reason: `The batch is beyond what one plan can take (${bounded.error}).` };
+    else if (built.job.parts.length === 0) outcome = { kind: "failed", reason: "The batch has no parts to cut." };
     else if (built.job.stock.length === 0) outcome = { kind: "failed", reason: "The material has no stock panels: add its sheet sizes in the catalogue first." };
     else {
       outcome = await runInWorker(planId, built.job);

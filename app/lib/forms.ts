@@ -2,7 +2,11 @@ import * as v from "valibot";
 
 export type FieldErrors = Record<string, string>;
 
-/** Validates a form's fields with a valibot schema; the first message per field, keyed by field name. */
+/**
+ * Validates a form's fields with a valibot schema; the first message per field, keyed by field name.
+ * The intent and the ids travel in hidden inputs, where no one sees a message or can fix the value,
+ * so a problem with one of them is also told in `form` (the alert at the top of the page).
+ */
 export function parseForm<TSchema extends v.GenericSchema>(
   schema: TSchema,
   form: FormData | Record<string, unknown>,
@@ -14,6 +18,7 @@ export function parseForm<TSchema extends v.GenericSchema>(
   for (const issue of result.issues) {
     const key = issue.path?.map((p) => String(p.key)).join(".") || "form";
     errors[key] ??= issue.message;
+    if (key === "intent" || /Id$/.test(key)) errors.form ??= `This form could not be read (${key}: ${issue.message}). Reload the page and try again.`;
   }
   return { ok: false, errors };
 }

@@ -17,9 +17,9 @@ export async function loader(args: Route.LoaderArgs) {
 
 const TickSchema = v.object({
   setupIndex: v.pipe(v.union([v.string(), v.number()], "setupIndex: give the set-up's number."), v.transform(Number), v.integer("setupIndex: give the set-up's number."), v.minValue(0, "setupIndex: give the set-up's number.")),
-  countCut: v.optional(v.pipe(v.union([v.string(), v.number()]), v.transform(Number), v.integer("countCut: a whole number of pieces."), v.minValue(0, "countCut: 0 or more."), v.maxValue(100_000, "countCut: at most 100,000."))),
-  untick: v.optional(v.union([v.literal("1"), v.literal(true)])),
-});
+  countCut: v.optional(v.pipe(v.union([v.string(), v.number()], "countCut: a whole number of pieces."), v.transform(Number), v.integer("countCut: a whole number of pieces."), v.minValue(0, "countCut: 0 or more."), v.maxValue(100_000, "countCut: at most 100,000."))),
+  untick: v.optional(v.union([v.literal("1"), v.literal(true)], 'untick: "1" or true, or leave it out.')),
+}, "setupIndex: give the set-up's number."); // also the message for a missing setupIndex or a body that is no object
 
 export async function action(args: Route.ActionArgs) {
   const user = requirePermission(args, "floor:write");

@@ -54,6 +54,7 @@ export default function Batches({ loaderData, actionData }: Route.ComponentProps
         What is due, grouped per material and thickness, laid out on panels and sent to the saw.
       </PageHeader>
 
+      {errors.form && <FormAlert>{errors.form}</FormAlert>}
       {canWrite && (
         <section className="space-y-4 rounded-lg border border-line bg-card p-5" aria-labelledby="propose-heading">
           <h2 id="propose-heading" className="text-xl font-semibold">Gather what is due</h2>
