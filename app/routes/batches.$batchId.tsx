@@ -78,7 +78,7 @@ export async function action(args: Route.ActionArgs) {
   const batchId = args.params.batchId;
   if (!v.is(Uuid, batchId)) throw data("No such batch in this shop.", { status: 404 });
   const form = await args.request.formData();
-  const parsed = parseForm(ActionSchema, form);
+  const parsed = parseForm(ActionSchema, form, ["lineId", "targetBatchId", "planId"]);
   if (!parsed.ok) return data({ errors: parsed.errors, notice: null }, { status: 400 });
   const input = parsed.data;
   const notFound = () => data("No such batch, line or plan in this shop.", { status: 404 });

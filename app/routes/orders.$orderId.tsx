@@ -77,7 +77,7 @@ export async function action(args: Route.ActionArgs) {
   const orderId = args.params.orderId;
   if (!v.is(Uuid, orderId)) throw data("No such order in this shop.", { status: 404 });
   const { fields, entries } = await readOrderForm(args.request);
-  const parsed = parseForm(ActionSchema, fields);
+  const parsed = parseForm(ActionSchema, fields, ["to", "deposit", "lineId"]);
   if (!parsed.ok) return data({ errors: parsed.errors, values: fields, intent: fields.intent }, { status: 400 });
   const input = parsed.data;
   const fail = (message: string, status = 409) => data({ errors: { form: message } as Record<string, string>, values: fields, intent: input.intent }, { status });

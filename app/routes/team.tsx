@@ -31,7 +31,7 @@ const TeamActionSchema = v.variant("intent", [
 export async function action(args: Route.ActionArgs) {
   const user = requirePermission(args, "team:manage");
   const form = await args.request.formData();
-  const parsed = parseForm(TeamActionSchema, form);
+  const parsed = parseForm(TeamActionSchema, form, ["memberId", "invitationId"]);
   if (!parsed.ok) return data({ intent: String(form.get("intent")), errors: parsed.errors, notice: null }, { status: 400 });
   const input = parsed.data;
 
