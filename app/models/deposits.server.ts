@@ -173,10 +173,10 @@ export type WebhookOutcome = "recorded" | "duplicate" | "ignored";
 const idOf = (value: string | { id: string } | null | undefined) => (typeof value === "string" ? value : (value?.id ?? null));
 
 /**
- * Records what a verified webhook event says about a deposit. The deposit is found by the shop id
- * and deposit id the session was made with *and* the session's own id, so an event can only touch
- * the deposit it was made for. The same event id (or the same payment or refund under another event)
- * never records twice.
+ * Records what a verified webhook event says about a deposit. The deposit is found by both the shop
+ * id and the deposit id that Stopwise put in the session's (or refund's) metadata, so an event can
+ * only touch the deposit it was made for, in its own shop. The same event id (or the same payment or
+ * refund under another event) never records twice.
  */
 export async function recordWebhookEvent(event: Stripe.Event): Promise<WebhookOutcome> {
   switch (event.type) {

@@ -133,6 +133,14 @@ describe("deposits", () => {
     expect(orderPage).toMatch(/data-testid="balance-due">€141\.40/);
     // The customer coming back sees it paid.
     expect(visible((await request(server).get(`/pay/${deposit.linkToken}`)).text)).toContain("your deposit of €60.60 is paid");
+    // The webhook is exempt from the cross-site check by its exact path only.
+    const foreign = eventBody("customer.created", { id: "cus_2", object: "customer" });
+    const exempt = await request(server).post("/webhooks/payments").set("Content-Type", "application/json").set("Sec-Fetch-Site", "cross-site").set("Origin", "https://elsewhere.example").set("Stripe-Signature", sign(foreign)).send(foreign);
+    expect(exempt.status).toBe(200);
+    for (const path of ["/webhooks/payments/", "/webhooks/paymentsx", "/webhooks"]) {
+      const res = await request(server).post(path).set("Content-Type", "application/json").set("Sec-Fetch-Site", "cross-site").set("Stripe-Signature", sign(foreign)).send(foreign);
+      expect(res.status, path).toBe(403);
+    }
     // An event the app does not handle is acknowledged and changes nothing.
     expect((await deliver(server, eventBody("customer.created", { id: "cus_1", object: "customer" }))).body.outcome).toBe("ignored");
   });
