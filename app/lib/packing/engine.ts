@@ -30,6 +30,15 @@ export function guillotineVariants(): FillParams[] {
   return v;
 }
 
+/** knapsack-filled columns (stages 0): both axes, four column widths, two completions */
+export function columnVariants(): FillParams[] {
+  const v: FillParams[] = [];
+  for (const orient of [0, 1] as const)
+    for (let pick = 0; pick < 4; pick++)
+      for (const rc of [0, 1]) v.push({ kind: "guillotine", rectChoice: rc, split: 2, driver: "column", orient, pick });
+  return v;
+}
+
 export function stagedVariants(stages: 2 | 3): FillParams[] {
   const v: FillParams[] = [];
   for (const homogeneous of [false, true])
@@ -244,7 +253,7 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
           [0, 1].flatMap((rc) => [2, 4].map((sp): FillParams => ({ kind: "guillotine", rectChoice: rc, split: sp, driver: "rp", orient: orient as 0 | 1 }))),
         )
       : [];
-  const buildVariants = job.stages === 0 ? [...variants, ...stagedVariants(2), ...stagedVariants(3), ...rp, ...look] : variants;
+  const buildVariants = job.stages === 0 ? [...variants, ...stagedVariants(2), ...stagedVariants(3), ...rp, ...columnVariants(), ...look] : variants;
   const dims = prep.lowerBoundItems.map((_, t) => {
     const p = job.parts[prep.typePart[t]];
     return { l: mmToUm(p.length) + prep.kerf, w: mmToUm(p.width) + prep.kerf };

@@ -41,9 +41,14 @@ export interface GuillotineParams {
    * item-driven (pack the order), rectangle-driven (best item for each free rectangle), or look-ahead
    * (rectangle-driven, each choice judged by completing the panel greedily: slow, for small jobs)
    */
-  driver: "item" | "rect" | "look" | "rp";
-  /** "rp" only: orientation decided up front, 0 long side along x, 1 along y (where allowed) */
+  driver: "item" | "rect" | "look" | "rp" | "column";
+  /**
+   * "rp": orientation decided up front, 0 long side along x, 1 along y (where allowed).
+   * "column": 0 the column's parts lie along x (first cut x = const), 1 transposed (along y).
+   */
   orient?: 0 | 1;
+  /** "column" only: which column width, 0 the longest candidate to 3 the shortest (spread over the range) */
+  pick?: number;
 }
 
 export interface StagedParams {
@@ -80,6 +85,7 @@ export function fillBin(
   if (params.kind === "guillotine") {
     if (params.driver === "look") return lookaheadFill(ctx, counts, order, params, weight, out, freeOut);
     if (params.driver === "rp") return rectanglePackerFill(ctx, counts, order, params, weight, out, freeOut);
+    if (params.driver === "column") return columnFill(ctx, counts, order, params, weight, out, freeOut);
     return params.driver === "item"
       ? guillotineItemFill(ctx, counts, order, params, weight, out, freeOut)
       : guillotineRectFill(ctx, counts, order, params, weight, out, freeOut);
@@ -195,10 +201,12 @@ function guillotineRectFill(
   weight: Float64Array,
   out: Placed[],
   freeOut?: Free[],
+  startFree?: Free[],
 ): number {
   const free: Free[] = freeOut ?? [];
   free.length = 0;
-  free.push({ x: 0, y: 0, w: ctx.W, h: ctx.H });
+  if (startFree) free.push(...startFree);
+  else free.push({ x: 0, y: 0, w: ctx.W, h: ctx.H });
   let packed = 0;
   const dead: Free[] = [];
   // candidate types in priority order; ties in fit go to the earlier one
@@ -522,4 +530,121 @@ function rectanglePackerFill(
     for (const f of bp.freeRectangles) freeOut.push({ x: f.x, y: f.y, w: f.width, h: f.height });
   }
   return packed;
+}
+
+// --- column filler: a knapsack picks the parts that fill one column's height best ---
+// First cut x = a; the column [0, a) holds parts lying along x, stacked in y, chosen by a 0-1
+// knapsack on their widths (value: area) so the column's height is used nearly exactly; each
+// row's remnant, the column's top and the rest of the panel [a, W) are then filled by the
+// rectangle-driven guillotine filler. Long thin parts (longer than half the panel) cannot lie
+// side by side, so stacking them in a column of about their length wastes least.
+
+/** knapsack grid: at most this many cells (capacity × copies); sizes are rounded up to the grid */
+const KNAP_CELLS = 60_000;
+
+function gcd(a: number, b: number): number {
+  while (b) [a, b] = [b, a % b];
+  return a;
+}
+
+const transposedCtx = new WeakMap<BinContext, BinContext>();
+function transpose(ctx: BinContext): BinContext {
+  let t = transposedCtx.get(ctx);
+  if (!t) {
+    t = { W: ctx.H, H: ctx.W, stripMax: ctx.stripMax, orients: ctx.orients.map((os) => os.map((o) => ({ w: o.h, h: o.w, rot: o.rot }))) };
+    transposedCtx.set(ctx, t);
+  }
+  return t;
+}
+
+function columnFill(
+  ctx: BinContext,
+  counts: Int32Array,
+  order: number[],
+  p: GuillotineParams,
+  weight: Float64Array,
+  out: Placed[],
+  freeOut?: Free[],
+): number {
+  if (p.orient === 1) {
+    const tc = transpose(ctx);
+    const placed: Placed[] = [];
+    const free: Free[] = [];
+    const packed = columnFill(tc, counts, order, { ...p, orient: 0 }, weight, placed, free);
+    for (const q of placed) out.push({ t: q.t, x: q.y, y: q.x, w: q.h, h: q.w, rot: q.rot });
+    if (freeOut) {
+      freeOut.length = 0;
+      for (const f of free) freeOut.push({ x: f.y, y: f.x, w: f.h, h: f.w });
+    }
+    return packed;
+  }
+  const { W, H } = ctx;
+  // candidate column widths: lengths of parts longer than half the panel
+  const widths = new Set<number>();
+  for (let t = 0; t < counts.length; t++) {
+    if (counts[t] <= 0) continue;
+    for (const o of ctx.orients[t]) if (o.w * 2 > W && o.h <= H) widths.add(o.w);
+  }
+  const startFree: Free[] = [];
+  if (widths.size > 0) {
+    const ws = [...widths].sort((a, b) => b - a);
+    const a = ws[Math.round(((p.pick ?? 0) * (ws.length - 1)) / 3)];
+    // copies that fit the column, each in its longest orientation no longer than a
+    const items: { t: number; o: Orient }[] = [];
+    for (const t of order.length ? [...new Set(order)] : []) {
+      if (counts[t] <= 0) continue;
+      let bo: Orient | null = null;
+      for (const o of ctx.orients[t]) if (o.w <= a && o.h <= H && (!bo || o.w > bo.w)) bo = o;
+      if (!bo) continue;
+      const copies = Math.min(counts[t], Math.floor(H / bo.h));
+      for (let c = 0; c < copies; c++) items.push({ t, o: bo });
+    }
+    if (items.length > 0) {
+      let g = H;
+      for (const it of items) g = gcd(g, it.o.h);
+      let cap = Math.floor(H / g);
+      if (cap * items.length > KNAP_CELLS) {
+        // coarser grid: round heights up and the capacity down, so every choice still fits
+        g = Math.ceil((H * items.length) / KNAP_CELLS);
+        cap = Math.floor(H / g);
+      }
+      const size = items.map((it) => Math.ceil(it.o.h / g));
+      const best = new Float64Array(cap + 1);
+      const take = new Uint8Array(items.length * (cap + 1));
+      for (let i = 0; i < items.length; i++) {
+        const sz = size[i];
+        const val = items[i].o.w * items[i].o.h;
+        for (let c = cap; c >= sz; c--) {
+          const v = best[c - sz] + val;
+          if (v > best[c]) {
+            best[c] = v;
+            take[i * (cap + 1) + c] = 1;
+          }
+        }
+      }
+      const chosen: { t: number; o: Orient }[] = [];
+      let c = cap;
+      for (let i = items.length - 1; i >= 0; i--) {
+        if (take[i * (cap + 1) + c]) {
+          chosen.push(items[i]);
+          c -= size[i];
+        }
+      }
+      // longest first, so the row remnants widen towards the column's top
+      chosen.sort((x, y) => y.o.w - x.o.w);
+      let y = 0;
+      let packed = 0;
+      for (const { t, o } of chosen) {
+        out.push({ t, x: 0, y, w: o.w, h: o.h, rot: o.rot });
+        counts[t]--;
+        packed += weight[t];
+        if (a > o.w) startFree.push({ x: o.w, y, w: a - o.w, h: o.h });
+        y += o.h;
+      }
+      if (H > y) startFree.push({ x: 0, y, w: a, h: H - y });
+      if (W > a) startFree.push({ x: a, y: 0, w: W - a, h: H });
+      return packed + guillotineRectFill(ctx, counts, order, p, weight, out, freeOut, startFree);
+    }
+  }
+  return guillotineRectFill(ctx, counts, order, p, weight, out, freeOut);
 }
