@@ -39,6 +39,23 @@ export function columnVariants(): FillParams[] {
   return v;
 }
 
+/** share of the parts (by count) above which the column filler joins the search */
+const LONG_THIN_SHARE = 0.7;
+
+/** Share of the parts that are long and thin on some panel: longer than half of it one way, at most half the other way. */
+function longThinShare(prep: Prepared): number {
+  let all = 0;
+  let thin = 0;
+  prep.demand.forEach((n, t) => {
+    all += n;
+    const isThin = prep.slots.some(({ ctx }) =>
+      ctx.orients[t].some((o) => (o.w * 2 > ctx.W && o.h * 2 <= ctx.H) || (o.h * 2 > ctx.H && o.w * 2 <= ctx.W)),
+    );
+    if (isThin) thin += n;
+  });
+  return all > 0 ? thin / all : 0;
+}
+
 export function stagedVariants(stages: 2 | 3): FillParams[] {
   const v: FillParams[] = [];
   for (const homogeneous of [false, true])
@@ -253,7 +270,9 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
           [0, 1].flatMap((rc) => [2, 4].map((sp): FillParams => ({ kind: "guillotine", rectChoice: rc, split: sp, driver: "rp", orient: orient as 0 | 1 }))),
         )
       : [];
-  const buildVariants = job.stages === 0 ? [...variants, ...stagedVariants(2), ...stagedVariants(3), ...rp, ...columnVariants(), ...look] : variants;
+  // knapsack columns only where long thin parts make up most of the job (elsewhere they only cost time)
+  const columns = job.stages === 0 && longThinShare(prep) >= LONG_THIN_SHARE ? columnVariants() : [];
+  const buildVariants = job.stages === 0 ? [...variants, ...stagedVariants(2), ...stagedVariants(3), ...rp, ...columns, ...look] : variants;
   const dims = prep.lowerBoundItems.map((_, t) => {
     const p = job.parts[prep.typePart[t]];
     return { l: mmToUm(p.length) + prep.kerf, w: mmToUm(p.width) + prep.kerf };
