@@ -1,3 +1,4 @@
+import { randomBytes } from "node:crypto";
 import { PassThrough } from "node:stream";
 import { createReadableStreamFromReadable } from "@react-router/node";
 import { isbot } from "isbot";
@@ -8,12 +9,14 @@ import { isRouteErrorResponse, ServerRouter, type EntryContext, type HandleError
 export const streamTimeout = 5_000;
 
 // Pages may not be framed elsewhere, nor their type guessed, nor their address leaked to other sites.
-function setDocumentHeaders(headers: Headers) {
+// Scripts run only from this origin or inline with this response's nonce (React Router's hydration
+// scripts carry it), so an injected inline script does not run.
+function setDocumentHeaders(headers: Headers, nonce: string) {
   headers.set("Content-Type", "text/html; charset=utf-8");
   headers.set("X-Content-Type-Options", "nosniff");
   headers.set("Referrer-Policy", "same-origin");
   headers.set("X-Frame-Options", "DENY");
-  headers.set("Content-Security-Policy", "frame-ancestors 'none'; base-uri 'self'; form-action 'self'; object-src 'none'");
+  headers.set("Content-Security-Policy", `script-src 'self' 'nonce-${nonce}'; frame-ancestors 'none'; base-uri 'self'; form-action 'self'; object-src 'none'`);
 }
 
 export default function handleRequest(request: Request, responseStatusCode: number, responseHeaders: Headers, routerContext: EntryContext) {
@@ -21,6 +24,8 @@ export default function handleRequest(request: Request, responseStatusCode: numb
     return new Response(null, { status: responseStatusCode, headers: responseHeaders });
   }
 
+  // A fresh nonce per response (128 bits): ServerRouter hands it to <Scripts>, <ScrollRestoration> and <Links>.
+  const nonce = randomBytes(16).toString("base64");
   return new Promise<Response>((resolve, reject) => {
     let shellRendered = false;
     const userAgent = request.headers.get("user-agent");
@@ -28,7 +33,8 @@ export default function handleRequest(request: Request, responseStatusCode: numb
     const readyOption: keyof RenderToPipeableStreamOptions = (userAgent && isbot(userAgent)) || routerContext.isSpaMode ? "onAllReady" : "onShellReady";
     let timeoutId: ReturnType<typeof setTimeout> | undefined = setTimeout(() => abort(), streamTimeout + 1000);
 
-    const { pipe, abort } = renderToPipeableStream(<ServerRouter context={routerContext} url={request.url} />, {
+    const { pipe, abort } = renderToPipeableStream(<ServerRouter context={routerContext} url={request.url} nonce={nonce} />, {
+      nonce,
       [readyOption]() {
         shellRendered = true;
         const body = new PassThrough({
@@ -38,7 +44,7 @@ export default function handleRequest(request: Request, responseStatusCode: numb
             callback();
           },
         });
-        setDocumentHeaders(responseHeaders);
+        setDocumentHeaders(responseHeaders, nonce);
         pipe(body);
         resolve(new Response(createReadableStreamFromReadable(body), { headers: responseHeaders, status: responseStatusCode }));
       },

@@ -179,4 +179,23 @@ describe("response headers (ASVS 4.0.3 V14.4.3–V14.4.7)", () => {
     expect(res.headers["content-security-policy"]).toContain("frame-ancestors 'none'");
     expect(res.headers["content-type"]).toBe("text/html; charset=utf-8");
   });
+
+  it("scripts run only from this origin or with a nonce that is new on every response and on every inline script", async () => {
+    const nonces: string[] = [];
+    for (let i = 0; i < 3; i++) {
+      const res = await request(server).get("/sign-in");
+      const csp: string = res.headers["content-security-policy"];
+      const scriptSrc = csp.split(";").map((d) => d.trim()).find((d) => d.startsWith("script-src "));
+      expect(scriptSrc).toMatch(/^script-src 'self' 'nonce-[A-Za-z0-9+/]{22}==' *$/);
+      expect(csp).not.toContain("unsafe-inline");
+      const nonce = scriptSrc!.match(/'nonce-([^']+)'/)![1];
+      nonces.push(nonce);
+      // Every script tag in the page, inline or not, carries this response's nonce.
+      const scripts = [...res.text.matchAll(/<script\b([^>]*)>([\s\S]*?)<\/script>/g)];
+      const inline = scripts.filter(([, , body]) => body.trim() !== "");
+      expect(inline.length).toBeGreaterThanOrEqual(2); // hydration context and route modules, at least
+      for (const [tag, attrs] of scripts) expect(attrs, tag.slice(0, 120)).toContain(`nonce="${nonce}"`);
+    }
+    expect(new Set(nonces).size).toBe(3);
+  });
 });

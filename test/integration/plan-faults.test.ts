@@ -68,6 +68,39 @@ async function waitForPlan(planId: string, until: (row: typeof t.plans.$inferSel
   }
 }
 
+describe("a plan runner is killed in the middle of a plan", () => {
+  it("marks the plan failed with the reason on the batch page, and another runner plans the next one", async () => {
+    const spawnRunner = (env: Record<string, string> = {}) => {
+      const child = spawn(`${root}bin/plan-runner`, [], { cwd: root, env: { ...process.env, ...env }, stdio: "ignore" });
+      children.push(child);
+      return child;
+    };
+    const shop = await createShop("Runner killed");
+    const planner = await signIn(server, shop.users.planner);
+    const { batchId } = await busyBatch(shop);
+
+    const first = spawnRunner();
+    const planId = await requestPlan(shop.id, batchId, settings(30_000));
+    await waitForPlan(planId, (p) => p.status === "running" && (p.progress?.elapsedMs ?? 0) > 300, 30);
+    first.kill("SIGKILL"); // the process and its engine thread go at once: no chance to tidy up
+
+    // A runner that counts 2 s without a tick as abandoned finds it.
+    const second = spawnRunner({ STOPWISE_PLAN_STALE_SECONDS: "2" });
+    const failed = await waitForPlan(planId, (p) => p.status !== "running", 30);
+    expect(failed.status).toBe("failed");
+    expect(failed.error).toContain("The plan runner stopped while working on this plan");
+    expect(failed.result).toBeNull();
+    const page = await request(server).get(`/batches/${batchId}`).set("Cookie", planner);
+    expect(visible(page.text)).toContain("Nothing was saved; run the plan again.");
+    const [batch] = await db.select().from(t.batches).where(and(eq(t.batches.id, batchId), eq(t.batches.shopId, shop.id)));
+    expect(batch.status).toBe("open");
+
+    const next = await requestPlan(shop.id, batchId, settings(300));
+    expect((await waitForPlan(next, (p) => p.status !== "queued" && p.status !== "running", 30)).status).toBe("done");
+    await new Promise((r) => second.once("exit", r).kill("SIGTERM")); // the next test plans in this process
+  });
+});
+
 describe("PostgreSQL restarts while a plan runs", () => {
   it("answers 503 while it is away, then the plan is saved whole and validated, and releasing and planning work again", async () => {
     await startPlanRunner();
@@ -117,37 +150,5 @@ describe("PostgreSQL restarts while a plan runs", () => {
     const [after] = await db.select().from(t.stockPanels).where(eq(t.stockPanels.id, panel.id));
     expect(after.onHand).toBe(40 - result.plan.sheets.length);
     await stopPlanRunner();
-  });
-});
-
-describe("a plan runner is killed in the middle of a plan", () => {
-  it("marks the plan failed with the reason on the batch page, and another runner plans the next one", async () => {
-    const spawnRunner = (env: Record<string, string> = {}) => {
-      const child = spawn(`${root}bin/plan-runner`, [], { cwd: root, env: { ...process.env, ...env }, stdio: "ignore" });
-      children.push(child);
-      return child;
-    };
-    const shop = await createShop("Runner killed");
-    const planner = await signIn(server, shop.users.planner);
-    const { batchId } = await busyBatch(shop);
-
-    const first = spawnRunner();
-    const planId = await requestPlan(shop.id, batchId, settings(30_000));
-    await waitForPlan(planId, (p) => p.status === "running" && (p.progress?.elapsedMs ?? 0) > 300, 30);
-    first.kill("SIGKILL"); // the process and its engine thread go at once: no chance to tidy up
-
-    // A runner that counts 2 s without a tick as abandoned finds it.
-    spawnRunner({ STOPWISE_PLAN_STALE_SECONDS: "2" });
-    const failed = await waitForPlan(planId, (p) => p.status !== "running", 30);
-    expect(failed.status).toBe("failed");
-    expect(failed.error).toContain("The plan runner stopped while working on this plan");
-    expect(failed.result).toBeNull();
-    const page = await request(server).get(`/batches/${batchId}`).set("Cookie", planner);
-    expect(visible(page.text)).toContain("Nothing was saved; run the plan again.");
-    const [batch] = await db.select().from(t.batches).where(and(eq(t.batches.id, batchId), eq(t.batches.shopId, shop.id)));
-    expect(batch.status).toBe("open");
-
-    const next = await requestPlan(shop.id, batchId, settings(300));
-    expect((await waitForPlan(next, (p) => p.status !== "queued" && p.status !== "running", 30)).status).toBe("done");
   });
 });
