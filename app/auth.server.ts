@@ -9,8 +9,10 @@ import { can, deniedMessage, type Permission, type Role } from "~/lib/permission
 import { timed } from "~/timing.server";
 
 // Sessions expire 12 hours after the last renewal; lucia renews (a new expiry, same id) once half of
-// that has passed, so a day at the saw keeps one session while an idle one ends (OWASP ASVS 4.0.3 V3.3.2).
+// that has passed, so a day at the saw keeps one session while an idle one ends. However active, a
+// session ends 12 hours after sign-in, and the person signs in again (OWASP ASVS 4.0.3 V3.3.2, level 2).
 const SESSION_LIFETIME = new TimeSpan(12, "h");
+export const SESSION_ABSOLUTE_MS = 12 * 60 * 60 * 1000;
 
 /**
  * lucia's Drizzle adapter, except that the session is read with its user and the shop's name in one
@@ -19,13 +21,17 @@ const SESSION_LIFETIME = new TimeSpan(12, "h");
 class SessionAdapter extends DrizzlePostgreSQLAdapter {
   override async getSessionAndUser(sessionId: string): Promise<[DatabaseSession | null, DatabaseUser | null]> {
     const [row] = await getDb()
-      .select({ id: sessions.id, userId: sessions.userId, expiresAt: sessions.expiresAt, shopId: users.shopId, shopName: shops.name, email: users.email, name: users.name, role: users.role })
+      .select({ id: sessions.id, userId: sessions.userId, expiresAt: sessions.expiresAt, createdAt: sessions.createdAt, shopId: users.shopId, shopName: shops.name, email: users.email, name: users.name, role: users.role })
       .from(sessions)
       .innerJoin(users, eq(users.id, sessions.userId))
       .innerJoin(shops, eq(shops.id, users.shopId))
       .where(eq(sessions.id, sessionId));
     if (!row) return [null, null];
-    const { id, userId, expiresAt, ...attributes } = row;
+    const { id, userId, expiresAt, createdAt, ...attributes } = row;
+    if (Date.now() - createdAt.getTime() > SESSION_ABSOLUTE_MS) {
+      await this.deleteSession(id);
+      return [null, null];
+    }
     return [{ id, userId, expiresAt, attributes: {} }, { id: userId, attributes }];
   }
 }

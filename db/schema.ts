@@ -88,6 +88,8 @@ export const sessions = pgTable("sessions", {
     .notNull()
     .references(() => users.id, { onDelete: "cascade" }),
   expiresAt: timestamp("expires_at", { withTimezone: true, mode: "date" }).notNull(),
+  // Sign-in time: however active, a session ends 12 h after it (app/auth.server.ts).
+  createdAt: createdAt(),
 });
 
 export const materials = pgTable(

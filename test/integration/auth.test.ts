@@ -134,6 +134,22 @@ describe("sign-in and sessions", () => {
     expect([expired.headers["set-cookie"]].flat().join()).toMatch(/stopwise_session=;/);
   });
 
+  it("ends a session 12 hours after sign-in however active it is (ASVS 4.0.3 V3.3.2)", async () => {
+    const shop = await createShop();
+    const cookie = await signIn(server, shop.users.owner);
+    const id = cookie.split("=")[1];
+    const elevenHoursAgo = new Date(Date.now() - 11 * 60 * 60 * 1000);
+    await getDb().update(sessions).set({ createdAt: elevenHoursAgo }).where(eq(sessions.id, id));
+    expect((await request(server).get("/").set("Cookie", cookie)).status).toBe(200);
+
+    await getDb().update(sessions).set({ createdAt: new Date(Date.now() - 12 * 60 * 60 * 1000 - 1000), expiresAt: new Date(Date.now() + 6 * 60 * 60 * 1000) }).where(eq(sessions.id, id));
+    const ended = await request(server).get("/orders").set("Cookie", cookie);
+    expect(ended.status).toBe(302);
+    expect(ended.headers.location).toBe("/sign-in?redirectTo=%2Forders");
+    expect([ended.headers["set-cookie"]].flat().join()).toMatch(/stopwise_session=;/);
+    expect(await getDb().select().from(sessions).where(eq(sessions.id, id))).toHaveLength(0);
+  });
+
   it("returns to the address it was sent from, but never off-site", async () => {
     const shop = await createShop();
     const ok = await request(server).post("/sign-in").type("form").send({ email: shop.users.owner.email, password: TEST_PASSWORD, redirectTo: "/team" });
