@@ -112,7 +112,7 @@ function drive(url: string, route: Route, cookies: string[]): Promise<Result> {
         url,
         connections: CONNECTIONS,
         duration: SECONDS,
-        amount: MAX_REQUESTS,
+        maxOverallRequests: MAX_REQUESTS, // with duration: whichever comes first ("amount" would override duration)
         timeout: 10,
         requests: [
           {
