@@ -15,7 +15,9 @@ export function Layout({ children }: { children: React.ReactNode }) {
         <meta name="viewport" content="width=device-width, initial-scale=1" />
         <link rel="icon" href="/favicon.svg" type="image/svg+xml" />
         <Meta />
-        <Links />
+        {/* Stylesheets need no nonce (only scripts are restricted), and the browser hides a nonce from
+            the page, so the client could never match the server's: none is rendered here. */}
+        <Links nonce="" />
       </head>
       <body className="min-h-screen bg-paper text-ink antialiased">
         {children}
