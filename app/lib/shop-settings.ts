@@ -17,10 +17,10 @@ export type LengthSetting =
   | "stopMinUm"
   | "stopMaxUm";
 
-export type SettingsValues = Record<LengthSetting, number> & { displayUnit: DisplayUnit; currency: string; minOffcutAreaMm2: number };
+export type SettingsValues = Record<LengthSetting, number> & { displayUnit: DisplayUnit; currency: string; minOffcutAreaMm2: number; sledToleranceUmPerM: number };
 
 type LengthField = { key: LengthSetting; label: string; hint: string; limits: LengthLimits };
-export type SettingsGroup = { title: string; about: string; lengths: LengthField[]; area?: boolean };
+export type SettingsGroup = { title: string; about: string; lengths: LengthField[]; area?: boolean; sledTolerance?: boolean };
 
 export const SETTINGS_GROUPS: SettingsGroup[] = [
   {
@@ -56,6 +56,12 @@ export const SETTINGS_GROUPS: SettingsGroup[] = [
       { key: "stopMaxUm", label: "Stop block, furthest setting", hint: "From the blade.", limits: { min: mm(1), max: mm(5000) } },
     ],
   },
+  {
+    title: "Sled checks",
+    about: "How far out of square a crosscut sled may be, by the five-cut test, before the sled page and the set-up sheet warn.",
+    lengths: [],
+    sledTolerance: true,
+  },
 ];
 
 export const LENGTH_SETTINGS: LengthField[] = SETTINGS_GROUPS.flatMap((g) => g.lengths);
@@ -81,6 +87,27 @@ export function readArea(text: string, unit: DisplayUnit): { ok: true; mm2: numb
   return { ok: true, mm2 };
 }
 
+// Squareness is an error per length of cut: per metre for a metric shop, per foot (0.3048 m exactly) for an inch one.
+const UM_PER_IN = 25_400;
+const M_PER_FT = 0.3048;
+const TOLERANCE_LIMITS_UM_PER_M = { min: 10, max: 5000 };
+
+/** "0.15", "0.15 mm/m", "0.15 mm per metre", "0.002 in/ft", "0.002 in per foot" → whole µm per metre; a bare number is in the shop's unit. */
+export function readErrorRate(text: string, unit: DisplayUnit): { ok: true; umPerM: number } | { ok: false; error: string } {
+  const match = /^(\d+(?:[.,]\d+)?|[.,]\d+)\s*(?:(mm)\s*(?:\/|per)\s*m(?:et(?:re|er))?|(in|inch(?:es)?|")\s*(?:\/|per)\s*(?:ft|foot))?$/i.exec(text.trim());
+  if (!match) return { ok: false, error: `Enter an error per length of cut, such as ${unit === "mm" ? "0.15 mm/m" : "0.002 in/ft"}.` };
+  const amount = Number(match[1].replace(",", "."));
+  const inches = match[3] !== undefined || (match[2] === undefined && unit === "in");
+  const umPerM = Math.round(inches ? (amount * UM_PER_IN) / M_PER_FT : amount * 1000);
+  if (umPerM < TOLERANCE_LIMITS_UM_PER_M.min || umPerM > TOLERANCE_LIMITS_UM_PER_M.max) return { ok: false, error: unit === "mm" ? "Must be between 0.01 and 5 mm per metre." : "Must be between 0.00012 and 0.06 in per foot." };
+  return { ok: true, umPerM };
+}
+
+/** As the form shows it: "0.150 mm/m" or "0.0018 in/ft". */
+export function formatErrorRateInput(umPerM: number, unit: DisplayUnit): string {
+  return unit === "mm" ? `${(umPerM / 1000).toFixed(3)} mm/m` : `${((umPerM * M_PER_FT) / UM_PER_IN).toFixed(4)} in/ft`;
+}
+
 export function formatArea(mm2: number, unit: DisplayUnit): string {
   if (unit === "mm") return `${mm2} mm²`;
   return `${Number((mm2 / MM2_PER_IN2).toFixed(1))} in²`;
@@ -89,7 +116,12 @@ export function formatArea(mm2: number, unit: DisplayUnit): string {
 /** The values the form shows for stored settings (and keeps when a rejected form comes back). */
 export function settingsFormValues(settings: SettingsValues): Record<string, string> {
   const unit = settings.displayUnit;
-  const values: Record<string, string> = { displayUnit: unit, currency: settings.currency, minOffcutAreaMm2: formatArea(settings.minOffcutAreaMm2, unit) };
+  const values: Record<string, string> = {
+    displayUnit: unit,
+    currency: settings.currency,
+    minOffcutAreaMm2: formatArea(settings.minOffcutAreaMm2, unit),
+    sledToleranceUmPerM: formatErrorRateInput(settings.sledToleranceUmPerM, unit),
+  };
   for (const field of LENGTH_SETTINGS) values[field.key] = lengthInputValue(settings[field.key], unit);
   return values;
 }
@@ -108,6 +140,7 @@ export function settingsSchema(unit: DisplayUnit, current: SettingsValues) {
     ReturnType<typeof lengthSchema>
   >;
   const shownArea = formatArea(current.minOffcutAreaMm2, current.displayUnit);
+  const shownTolerance = formatErrorRateInput(current.sledToleranceUmPerM, current.displayUnit);
   return v.pipe(
     v.object({
       displayUnit: v.picklist(["mm", "in"], "Choose millimetres or inches."),
@@ -118,6 +151,17 @@ export function settingsSchema(unit: DisplayUnit, current: SettingsValues) {
           if (dataset.value.trim() === shownArea) return current.minOffcutAreaMm2;
           const read = readArea(dataset.value, unit);
           if (read.ok) return read.mm2;
+          addIssue({ message: read.error });
+          return NEVER;
+        }),
+      ),
+      sledToleranceUmPerM: v.pipe(
+        v.string("Enter a tolerance."),
+        v.rawTransform(({ dataset, addIssue, NEVER }) => {
+          // Left as shown, the stored figure stays exact (the inch form is rounded to 0.0001 in).
+          if (dataset.value.trim() === shownTolerance) return current.sledToleranceUmPerM;
+          const read = readErrorRate(dataset.value, unit);
+          if (read.ok) return read.umPerM;
           addIssue({ message: read.error });
           return NEVER;
         }),

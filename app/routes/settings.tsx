@@ -7,6 +7,7 @@ import { parseForm } from "~/lib/forms";
 import { DEPOSIT_RULE_LABELS, DEPOSIT_RULES, depositFormValues, depositRuleSchema, describeRule, type DepositRule } from "~/lib/deposits";
 import { CURRENCIES, isCurrency } from "~/lib/money";
 import { DISPLAY_UNITS, formatArea, formatSetting, formUnit, SETTINGS_GROUPS, settingsFormValues, settingsSchema, type SettingsValues } from "~/lib/shop-settings";
+import { formatErrorRate } from "~/lib/sled";
 import { getShop } from "~/models/shops.server";
 import { updateShopSettings } from "~/models/settings.server";
 import { paymentsConfigured } from "~/payments.server";
@@ -33,8 +34,7 @@ export async function action(args: Route.ActionArgs) {
     const errors = { ...(parsed.ok ? {} : parsed.errors), ...(deposit.ok ? {} : deposit.errors) };
     return data({ ok: false as const, errors, values }, { status: 400 });
   }
-  const { displayUnit, currency, minOffcutAreaMm2, ...lengths } = parsed.data;
-  await updateShopSettings(user.shopId, { displayUnit, currency, minOffcutAreaMm2, ...lengths, ...deposit.data });
+  await updateShopSettings(user.shopId, { ...parsed.data, ...deposit.data });
   return { ok: true as const, errors: {}, values: null };
 }
 
@@ -93,6 +93,17 @@ function SettingsForm({ settings, actionData, paymentsReady }: { settings: Setti
           {group.lengths.map((f) => (
             <Field key={f.key} label={f.label} name={f.key} defaultValue={values[f.key]} error={errors[f.key]} hint={f.hint || undefined} inputMode="decimal" autoComplete="off" />
           ))}
+          {group.sledTolerance && (
+            <Field
+              label="Squareness tolerance"
+              name="sledToleranceUmPerM"
+              defaultValue={values.sledToleranceUmPerM}
+              error={errors.sledToleranceUmPerM}
+              hint={settings.displayUnit === "mm" ? "Error allowed per metre of cut, in mm/m (or in/ft)." : "Error allowed per foot of cut, in in/ft (or mm/m)."}
+              inputMode="decimal"
+              autoComplete="off"
+            />
+          )}
           {group.area && (
             <Field
               label="Area at least"
@@ -146,6 +157,7 @@ function SettingsReadOnly({ settings }: { settings: Settings }) {
           rows={[
             ...group.lengths.map((f): [string, string] => [f.label, formatSetting(settings, f.key)]),
             ...(group.area ? [["Area at least", formatArea(settings.minOffcutAreaMm2, settings.displayUnit)] as [string, string]] : []),
+            ...(group.sledTolerance ? [["Squareness tolerance", formatErrorRate(settings.sledToleranceUmPerM, settings.displayUnit)] as [string, string]] : []),
           ]}
         />
       ))}

@@ -103,6 +103,22 @@ describe("shop settings", () => {
     expect(await stored(shop.id)).toEqual(before);
   });
 
+  it("sets the sled's squareness tolerance, per metre or per foot, and refuses nonsense on that field", async () => {
+    const shop = await createShop("Settings");
+    const owner = await signIn(server, shop.users.owner);
+    expect((await request(server).get("/settings").set("Cookie", owner)).text).toContain('value="0.150 mm/m"'); // the default, 150 µm per metre
+    const saved = await request(server).post("/settings").set("Cookie", owner).type("form").send(await form(shop.id, { sledToleranceUmPerM: "0.003 in/ft" }));
+    expect(saved.status).toBe(200);
+    expect((await stored(shop.id)).sledToleranceUmPerM).toBe(250); // 0.003 × 25 400 µm / 0.3048 m
+    const before = await stored(shop.id);
+    const bad = await request(server).post("/settings").set("Cookie", owner).type("form").send(await form(shop.id, { sledToleranceUmPerM: "square enough" }));
+    expect(bad.status).toBe(400);
+    expect(bad.text).toMatch(/id="field-sledToleranceUmPerM-error"[^>]*>Enter an error per length of cut, such as 0.15 mm\/m\./);
+    expect(await stored(shop.id)).toEqual(before);
+    // The sled page judges checks by it.
+    expect(visible((await request(server).get("/sleds").set("Cookie", owner)).text)).toContain("tolerance (0.250 mm per metre)");
+  });
+
   it("checks the stop range even when every other field is fine", async () => {
     const shop = await createShop("Settings");
     const owner = await signIn(server, shop.users.owner);

@@ -82,6 +82,7 @@ describe("settings schema", () => {
   const stored: SettingsValues = {
     displayUnit: "mm",
     currency: "EUR",
+    sledToleranceUmPerM: 150,
     kerfUm: 3200,
     edgeTrimUm: 10_000,
     minOffcutShortUm: 100_000,
