@@ -7,21 +7,23 @@ import { Field, FormAlert, SubmitButton } from "~/components/forms";
 import { PageHeader } from "~/components/page-header";
 import { addDays, formatDate, isIsoDate, todayIso } from "~/lib/dates";
 import { parseForm } from "~/lib/forms";
-import { batchCode } from "~/lib/batches";
+import { batchCode, batchesToList, proposalPreview } from "~/lib/batches";
 import { can } from "~/lib/permissions";
 import { createBatches, listBatches, listHeldLines, proposeBatches, releaseHold } from "~/models/batches.server";
 
 export async function loader(args: Route.LoaderArgs) {
   const user = requirePermission(args, "batches:read");
-  const dueByParam = new URL(args.request.url).searchParams.get("dueBy") ?? "";
+  const url = new URL(args.request.url);
+  const dueByParam = url.searchParams.get("dueBy") ?? "";
   const dueBy = isIsoDate(dueByParam) ? dueByParam : addDays(todayIso(), 21);
   const canWrite = can(user.role, "batches:write");
-  const [batches, proposals, held] = await Promise.all([
+  const [all, proposals, held] = await Promise.all([
     listBatches(user.shopId),
     canWrite ? proposeBatches(user.shopId, dueBy) : [],
     canWrite ? listHeldLines(user.shopId) : [],
   ]);
-  return { batches, proposals, held, dueBy, canWrite };
+  const { shown, olderFinished } = url.searchParams.get("finished") === "all" ? { shown: all, olderFinished: 0 } : batchesToList(all);
+  return { batches: shown, olderFinished, proposals: proposals.map((p) => proposalPreview(p)), held, dueBy, canWrite };
 }
 
 const ActionSchema = v.variant("intent", [
@@ -44,10 +46,10 @@ export async function action(args: Route.ActionArgs) {
 }
 
 export default function Batches({ loaderData, actionData }: Route.ComponentProps) {
-  const { batches, proposals, held, dueBy, canWrite } = loaderData;
+  const { batches, olderFinished, proposals, held, dueBy, canWrite } = loaderData;
   const errors: Record<string, string> = actionData?.errors ?? {};
   const [params] = useSearchParams();
-  const lineCount = proposals.reduce((n, p) => n + p.lines.length + p.recuts.length, 0);
+  const lineCount = proposals.reduce((n, p) => n + p.lineCount + p.recutCount, 0);
   return (
     <div className="space-y-8">
       <PageHeader eyebrow="Planner" title="Batches">
@@ -76,6 +78,10 @@ export default function Batches({ loaderData, actionData }: Route.ComponentProps
                 {proposals.map((p) => (
                   <li key={p.materialId} className="rounded-md border border-line bg-white p-4" data-proposal={p.materialName}>
                     <p className="font-semibold">{p.materialName}</p>
+                    <p className="text-sm">
+                      {p.lineCount} line{p.lineCount === 1 ? "" : "s"}, {p.itemCount} item{p.itemCount === 1 ? "" : "s"}
+                      {p.recutCount > 0 ? ` · ${p.recutCount} to cut again` : ""}
+                    </p>
                     <ul className="mt-2 space-y-1 text-sm text-muted">
                       {p.lines.map((l) => (
                         <li key={l.lineId}>
@@ -88,6 +94,7 @@ export default function Batches({ loaderData, actionData }: Route.ComponentProps
                           {r.origin?.text ? ` (${r.origin.text})` : ""} · {r.reason}
                         </li>
                       ))}
+                      {p.notListed > 0 && <li className="font-medium">and {p.notListed} more, listed on the batch once it is created</li>}
                     </ul>
                   </li>
                 ))}
@@ -121,6 +128,14 @@ export default function Batches({ loaderData, actionData }: Route.ComponentProps
               </li>
             ))}
           </ul>
+        )}
+        {olderFinished > 0 && (
+          <p className="text-sm text-muted">
+            {olderFinished} older cut batch{olderFinished === 1 ? "" : "es"} not listed.{" "}
+            <Link to={`/batches?dueBy=${dueBy}&finished=all`} className="text-edge underline">
+              List every batch
+            </Link>
+          </p>
         )}
       </section>
 

@@ -124,6 +124,27 @@ async function createBatchFor(shopId: string, materialId: string) {
   return rows.map((r) => r.id);
 }
 
+describe("the batches page at a busy shop's scale", () => {
+  it("lists a proposal's first lines with its counts, yet the batch made from it takes every line", async () => {
+    const s = await scenario();
+    const [sign] = await db.select().from(t.products).where(and(eq(t.products.shopId, s.shop.id), eq(t.products.name, "Welcome sign")));
+    const [customer] = await db.select().from(t.customers).where(eq(t.customers.shopId, s.shop.id)).limit(1);
+    for (let i = 0; i < 15; i++) {
+      const o = await createOrder(s.shop.id, { customerId: customer.id, eventDate: "2027-01-30", dueDate: "2027-01-11", notes: "" }, [{ productId: sign.id, quantity: 2, personalisation: [], notes: "", files: [] }]);
+      await db.update(t.orders).set({ status: "confirmed" }).where(eq(t.orders.id, o.id));
+    }
+    const planner = await signIn(server, s.shop.users.planner);
+    const page = visible((await request(server).get("/batches?dueBy=2027-01-15").set("Cookie", planner)).text);
+    // 6 mm: the wedding's table numbers and sign, the party's table numbers, and 15 orders of two signs.
+    expect(page).toContain("18 lines, 36 items");
+    expect(page).toContain("and 6 more, listed on the batch once it is created");
+    const created = await request(server).post("/batches").set("Cookie", planner).type("form").send({ intent: "create", dueBy: "2027-01-15" });
+    expect(created.status).toBe(302);
+    const six = await db.select().from(t.batches).where(and(eq(t.batches.shopId, s.shop.id), eq(t.batches.materialId, s.birch6.id)));
+    expect(await db.$count(t.batchLines, eq(t.batchLines.batchId, six[0].id))).toBe(18);
+  });
+});
+
 describe("plans on the real queue", () => {
   let s: Awaited<ReturnType<typeof scenario>>;
   let six: string;
