@@ -6,6 +6,8 @@ import { decodeUtf8, MAX_CSV_BYTES, MAX_PERSONALISATION_ROWS, parsePersonalisati
 export const MAX_LINES = 50;
 export const MAX_QUANTITY = 10_000;
 export const MAX_FILES_PER_LINE = 10;
+/** The longest personalisation text an item takes. */
+const MAX_TEXT_CHARS = 500;
 
 export type Upload = { name: string; bytes: Uint8Array };
 export type RawLine = {
@@ -80,8 +82,8 @@ export function checkLines(raw: Map<number, RawLine>, productIds: Set<string>): 
       }
     }
     if (texts.length > MAX_PERSONALISATION_ROWS) errors[field(i, "texts")] = `At most ${MAX_PERSONALISATION_ROWS} texts per line.`;
-    const tooLong = texts.find((t) => t.length > 500);
-    if (tooLong) errors[field(i, "texts")] = `A text is longer than 500 characters: "${tooLong.slice(0, 40)}…".`;
+    const tooLong = texts.find((t) => t.length > MAX_TEXT_CHARS);
+    if (tooLong) errors[field(i, "texts")] = `A text is longer than ${MAX_TEXT_CHARS} characters: "${tooLong.slice(0, 40)}…".`;
 
     let quantity: number;
     if (l.followRows) {
@@ -132,8 +134,8 @@ export function safeDisplayName(name: string, type: ArtworkType): string {
  */
 export function checkLineTexts(typed: string, quantity: number): { ok: true; texts: string[] } | { ok: false; error: string } {
   const texts = parseTypedTexts(typed);
-  const tooLong = texts.find((t) => t.length > 500);
-  if (tooLong) return { ok: false, error: `Texts: one is longer than 500 characters: "${tooLong.slice(0, 40)}…".` };
+  const tooLong = texts.find((t) => t.length > MAX_TEXT_CHARS);
+  if (tooLong) return { ok: false, error: `Texts: one is longer than ${MAX_TEXT_CHARS} characters: "${tooLong.slice(0, 40)}…".` };
   if (texts.length > 0 && texts.length !== quantity) {
     return { ok: false, error: `Texts: this line has ${quantity} item${quantity === 1 ? "" : "s"} but ${texts.length} text${texts.length === 1 ? "" : "s"} were given; one text per item, or none.` };
   }

@@ -145,33 +145,35 @@ export function settingsSchema(unit: DisplayUnit, current: SettingsValues) {
     v.object({
       displayUnit: v.picklist(["mm", "in"], "Choose millimetres or inches."),
       currency: v.picklist(Object.keys(CURRENCIES) as [string, ...string[]], "Choose one of the currencies."),
-      minOffcutAreaMm2: v.pipe(
-        v.string("Enter an area."),
-        v.rawTransform(({ dataset, addIssue, NEVER }) => {
-          if (dataset.value.trim() === shownArea) return current.minOffcutAreaMm2;
-          const read = readArea(dataset.value, unit);
-          if (read.ok) return read.mm2;
-          addIssue({ message: read.error });
-          return NEVER;
-        }),
-      ),
-      sledToleranceUmPerM: v.pipe(
-        v.string("Enter a tolerance."),
-        v.rawTransform(({ dataset, addIssue, NEVER }) => {
-          // Left as shown, the stored figure stays exact (the inch form is rounded to 0.0001 in).
-          if (dataset.value.trim() === shownTolerance) return current.sledToleranceUmPerM;
-          const read = readErrorRate(dataset.value, unit);
-          if (read.ok) return read.umPerM;
-          addIssue({ message: read.error });
-          return NEVER;
-        }),
-      ),
+      minOffcutAreaMm2: shownOrRead("Enter an area.", shownArea, current.minOffcutAreaMm2, (text) => {
+        const read = readArea(text, unit);
+        return read.ok ? read.mm2 : read;
+      }),
+      // The inch form is rounded to 0.0001 in, so only a changed figure is read again.
+      sledToleranceUmPerM: shownOrRead("Enter a tolerance.", shownTolerance, current.sledToleranceUmPerM, (text) => {
+        const read = readErrorRate(text, unit);
+        return read.ok ? read.umPerM : read;
+      }),
       ...lengths,
     }),
     v.forward(
       v.partialCheck([["stopMinUm"], ["stopMaxUm"]], (s) => s.stopMinUm < s.stopMaxUm, "Must be further than the nearest stop setting."),
       ["stopMaxUm"],
     ),
+  );
+}
+
+/** A typed figure: left exactly as the form showed it, it keeps the stored value; otherwise it is read anew. */
+function shownOrRead(missing: string, shown: string, stored: number, read: (text: string) => number | { error: string }) {
+  return v.pipe(
+    v.string(missing),
+    v.rawTransform(({ dataset, addIssue, NEVER }) => {
+      if (dataset.value.trim() === shown) return stored;
+      const value = read(dataset.value);
+      if (typeof value === "number") return value;
+      addIssue({ message: value.error });
+      return NEVER;
+    }),
   );
 }
 

@@ -3,6 +3,7 @@ import { batches, batchLines, customers, lineFiles, orderLines, orders, products
 import { getDb } from "~/db.server";
 import { batchCode } from "~/lib/batches";
 import { likePattern, parseListQuery, type ListQuery } from "~/lib/listing";
+import { checkLineTexts } from "~/lib/order-lines";
 import { canMoveTo, linesEditable, ORDER_STATUSES, type OrderStatus } from "~/lib/order-status";
 
 export const ORDER_SORTS = ["number", "customer", "event", "due", "status", "total"] as const;
@@ -196,16 +197,23 @@ export async function removeLine(shopId: string, orderId: string, lineId: string
 }
 
 /**
- * Puts new personalisation texts on a line. Null: no such line on this shop's order. Refused once the
- * line's batch has gone to the saw: its labels and laser files may already be printed.
+ * Puts the typed personalisation texts on a line, checked against its item count as it stands. Null: no
+ * such line on this shop's order. Refused once the line's batch has gone to the saw: its labels and
+ * laser files may already be printed.
  */
-export async function updateLineTexts(shopId: string, orderId: string, lineId: string, texts: string[]): Promise<boolean | null> {
+export async function updateLineTexts(shopId: string, orderId: string, lineId: string, typed: string): Promise<{ ok: true } | { ok: false; error: string } | null> {
   return getDb().transaction(async (tx) => {
     const order = await lockOrder(tx, shopId, orderId);
     if (!order) return null;
     if (!linesEditable(order.status)) throw new OrderStateError("This order is in production; its lines can no longer change.");
-    const [line] = await tx.select({ id: orderLines.id }).from(orderLines).where(and(eq(orderLines.id, lineId), eq(orderLines.orderId, order.id))).for("update");
+    const [line] = await tx
+      .select({ id: orderLines.id, quantity: orderLines.quantity })
+      .from(orderLines)
+      .where(and(eq(orderLines.id, lineId), eq(orderLines.orderId, order.id)))
+      .for("update");
     if (!line) return null;
+    const texts = checkLineTexts(typed, line.quantity);
+    if (!texts.ok) return texts;
     const [atSaw] = await tx
       .select({ number: batches.number })
       .from(batchLines)
@@ -213,8 +221,8 @@ export async function updateLineTexts(shopId: string, orderId: string, lineId: s
       .where(and(eq(batchLines.orderLineId, line.id), inArray(batches.status, ["released", "cut", "closed"])))
       .limit(1);
     if (atSaw) throw new OrderStateError(`This line is in batch ${batchCode(atSaw.number)}, which has gone to the saw; its texts no longer change.`);
-    await tx.update(orderLines).set({ personalisation: texts }).where(eq(orderLines.id, line.id));
-    return true;
+    await tx.update(orderLines).set({ personalisation: texts.texts }).where(eq(orderLines.id, line.id));
+    return { ok: true };
   });
 }
 

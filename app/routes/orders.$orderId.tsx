@@ -10,7 +10,7 @@ import { StatusBadge } from "~/components/status-badge";
 import { formatDate } from "~/lib/dates";
 import { parseForm } from "~/lib/forms";
 import { formatMoney } from "~/lib/money";
-import { checkLines, checkLineTexts, rawLinesFrom } from "~/lib/order-lines";
+import { checkLines, rawLinesFrom } from "~/lib/order-lines";
 import { OrderHeaderSchema } from "~/lib/order-schema";
 import { linesEditable, nextStatuses, ORDER_STATUSES, STATUS_LABELS } from "~/lib/order-status";
 import { can } from "~/lib/permissions";
@@ -141,12 +141,10 @@ export async function action(args: Route.ActionArgs) {
         break;
       }
       case "line-texts": {
-        const line = (await getOrder(user.shopId, orderId))?.lines.find((l) => l.id === input.lineId);
-        if (!line) throw notFound();
-        const texts = checkLineTexts(input.texts, line.quantity);
-        const field = `texts-${line.id}`;
-        if (!texts.ok) return data({ errors: { [field]: texts.error } as Record<string, string>, values: fields, intent: field }, { status: 400 });
-        if ((await updateLineTexts(user.shopId, orderId, line.id, texts.texts)) === null) throw notFound();
+        const saved = await updateLineTexts(user.shopId, orderId, input.lineId, input.texts);
+        if (saved === null) throw notFound();
+        const field = `texts-${input.lineId}`;
+        if (!saved.ok) return data({ errors: { [field]: saved.error } as Record<string, string>, values: fields, intent: field }, { status: 400 });
         break;
       }
       case "header": {
