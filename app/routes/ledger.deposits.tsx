@@ -1,6 +1,7 @@
 import { Form, Link, useSearchParams } from "react-router";
 import type { Route } from "./+types/ledger.deposits";
 import { requirePermission } from "~/auth.server";
+import { MonthChoice } from "~/components/month-choice";
 import { PageHeader } from "~/components/page-header";
 import { DEPOSIT_STATUS_LABELS } from "~/lib/deposits";
 import { formatMoney } from "~/lib/money";
@@ -25,13 +26,7 @@ export default function DepositLedger({ loaderData }: Route.ComponentProps) {
         What customers paid towards their orders through the payment service, what went back to them, and what each order still owes.
       </PageHeader>
       <Form method="get" className="flex flex-wrap items-end gap-3">
-        <label className="space-y-1 text-sm font-medium">
-          <span className="block">Month</span>
-          <input type="month" name="month" defaultValue={month} className="block min-h-11 rounded-md border border-line bg-white px-3" />
-        </label>
-        <button type="submit" className="min-h-11 rounded-md border border-line bg-white px-4 font-medium hover:border-edge">
-          Show
-        </button>
+        <MonthChoice month={month} />
         <Link to="/ledger" className="min-h-11 content-center text-sm text-edge underline">
           Material ledger
         </Link>

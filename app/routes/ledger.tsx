@@ -3,6 +3,7 @@ import useSWR from "swr";
 import type { Route } from "./+types/ledger";
 import { requirePermission } from "~/auth.server";
 import { LedgerChart } from "~/components/ledger-chart";
+import { MonthChoice } from "~/components/month-choice";
 import { PageHeader } from "~/components/page-header";
 import { formatDate } from "~/lib/dates";
 import { formatArea } from "~/lib/ledger";
@@ -53,13 +54,7 @@ export default function Ledger({ loaderData }: Route.ComponentProps) {
         What the batches cut in a period drew from stock, what became parts, offcuts and scrap, and what it cost.
       </PageHeader>
       <Form method="get" className="flex flex-wrap items-end gap-3">
-        <label className="space-y-1 text-sm font-medium">
-          <span className="block">Month</span>
-          <input type="month" name="month" defaultValue={month} className="block min-h-11 rounded-md border border-line bg-white px-3" />
-        </label>
-        <button type="submit" className="min-h-11 rounded-md border border-line bg-white px-4 font-medium hover:border-edge">
-          Show
-        </button>
+        <MonthChoice month={month} />
         <span className="text-sm text-muted">or a range:</span>
         <input type="date" name="from" aria-label="From" defaultValue={params.get("from") ?? ""} className="min-h-11 rounded-md border border-line bg-white px-3" />
         <input type="date" name="to" aria-label="To" defaultValue={params.get("to") ?? ""} className="min-h-11 rounded-md border border-line bg-white px-3" />
