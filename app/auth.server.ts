@@ -3,7 +3,7 @@ import { Cookie, Lucia, TimeSpan, type DatabaseSession, type DatabaseUser } from
 import { data, redirect, type MiddlewareFunction, type RouterContextProvider } from "react-router";
 import { eq } from "drizzle-orm";
 import { sessions, shops, users } from "../db/schema";
-import { userContext, type SignedInUser } from "~/context";
+import { databaseFaultContext, userContext, type SignedInUser } from "~/context";
 import { getDb, isDatabaseUnavailable } from "~/db.server";
 import { can, deniedMessage, type Permission, type Role } from "~/lib/permissions";
 import { timed } from "~/timing.server";
@@ -135,16 +135,30 @@ export const sessionMiddleware: MiddlewareFunction<Response> = async ({ request,
     } catch (error) {
       // While PostgreSQL restarts, say so plainly (503) instead of failing with a 500.
       if (!isDatabaseUnavailable(error)) throw error;
-      const message = "Stopwise cannot reach its database just now. Nothing was saved by this request; try again in a moment.";
-      if (isApiRequest(request)) return Response.json({ error: message }, { status: 503, headers: { "Retry-After": "5" } });
-      throw data(message, { status: 503 });
+      return databaseUnavailable(request);
     }
   }
   context.set(userContext, user);
   const response = await next();
+  // A loader or action lost the database after the session was found: React Router has made a 500 of
+  // it (and told handleError, which marked the context); answer the same 503 as above instead.
+  if (context.get(databaseFaultContext)) return databaseUnavailable(request);
   if (setCookie && !response.headers.has("Set-Cookie")) response.headers.append("Set-Cookie", setCookie);
   return response;
 };
+
+export const DATABASE_UNAVAILABLE_MESSAGE = "Stopwise cannot reach its database just now. Nothing was saved by this request; try again in a moment.";
+
+/**
+ * 503 while the database is away. API routes answer JSON; everything else throws, so pages (and their
+ * client-side data requests) render the root error boundary's 503 page, and other resource routes answer
+ * the message as JSON text. Retry-After tells scripts when to ask again.
+ */
+function databaseUnavailable(request: Request): Response {
+  const headers = { "Retry-After": "5" };
+  if (isApiRequest(request)) return Response.json({ error: DATABASE_UNAVAILABLE_MESSAGE }, { status: 503, headers });
+  throw data(DATABASE_UNAVAILABLE_MESSAGE, { status: 503, headers });
+}
 
 type Args = { request: Request; context: Readonly<RouterContextProvider> };
 

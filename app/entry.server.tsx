@@ -5,6 +5,8 @@ import { isbot } from "isbot";
 import type { RenderToPipeableStreamOptions } from "react-dom/server";
 import { renderToPipeableStream } from "react-dom/server";
 import { isRouteErrorResponse, ServerRouter, type EntryContext, type HandleErrorFunction } from "react-router";
+import { databaseFaultContext } from "~/context";
+import { isDatabaseUnavailable } from "~/db.server";
 
 export const streamTimeout = 5_000;
 
@@ -59,8 +61,15 @@ export default function handleRequest(request: Request, responseStatusCode: numb
   });
 }
 
-// Refusals and misses (4xx) are answers, not faults: only real errors reach the log.
-export const handleError: HandleErrorFunction = (error, { request }) => {
+// Refusals and misses (4xx) are answers, not faults: only real errors reach the log. A database lost
+// mid-request is marked on the request's context, so the root middleware answers 503 (app/auth.server.ts);
+// React Router calls this inside the middleware chain, before the middleware's next() returns.
+export const handleError: HandleErrorFunction = (error, { request, context }) => {
+  if (isDatabaseUnavailable(error)) {
+    context.set(databaseFaultContext, true);
+    console.error(`database unavailable during ${request.method} ${new URL(request.url).pathname}: ${error instanceof Error ? error.message : String(error)}`);
+    return;
+  }
   if (request.signal.aborted) return;
   if (isRouteErrorResponse(error) && error.status < 500) return;
   console.error(error);
