@@ -1,16 +1,16 @@
 // The bill-of-parts grid. AG Grid owns the rows while people edit (feeding rows back in as props
 // would interrupt the cell being edited); every change is reported up as a fresh copy of all rows.
-import { AgGridReact, type CustomCellRendererProps } from "ag-grid-react";
+import { AgGridReact, type CustomCellEditorProps, type CustomCellRendererProps } from "ag-grid-react";
 import {
   CellStyleModule,
   CheckboxEditorModule,
   ClientSideRowModelApiModule,
   ClientSideRowModelModule,
+  CustomEditorModule,
   NumberEditorModule,
   RenderApiModule,
   RowApiModule,
   SelectEditorModule,
-  TextEditorModule,
   themeQuartz,
   type CellClassParams,
   type CellKeyDownEvent,
@@ -19,17 +19,17 @@ import {
   type GridApi,
   type GridReadyEvent,
 } from "ag-grid-community";
-import { useCallback, useEffect, useMemo, useRef, type RefObject } from "react";
+import { useCallback, useEffect, useLayoutEffect, useMemo, useRef, useState, type RefObject } from "react";
 import { PROCESS_LABELS, PROCESSES, type PartField, type PartRow, type RowErrors } from "~/lib/catalogue";
 import type { DisplayUnit } from "~/lib/units";
 
-// Only what this grid uses: rows in memory, add/remove by transaction, text/number/select/checkbox editors, red cells.
+// Only what this grid uses: rows in memory, add/remove by transaction, our text editor, number/select/checkbox editors, red cells.
 const MODULES = [
   ClientSideRowModelModule,
   ClientSideRowModelApiModule,
   RowApiModule,
   RenderApiModule,
-  TextEditorModule,
+  CustomEditorModule,
   NumberEditorModule,
   SelectEditorModule,
   CheckboxEditorModule,
@@ -63,6 +63,65 @@ const rowId = (p: { data: PartRow }) => p.data.key;
 
 type GridContext = { errors: RefObject<RowErrors>; remove: (row: PartRow) => void };
 
+/**
+ * Re-applies the red-cell rules to the cells whose verdict changed, and never to the one being
+ * edited: a refresh reaching an open editor rebuilt it from the row's value, and what was typed since
+ * Tab was lost. The edited cell is redrawn when its edit ends, which changes the errors again.
+ */
+function refreshChangedCells(api: GridApi<PartRow>, before: RowErrors, after: RowErrors) {
+  const editing = api.getEditingCells()[0];
+  const keys = new Set([...Object.keys(before), ...Object.keys(after)]);
+  for (const key of keys) {
+    const node = api.getRowNode(key);
+    if (!node) continue;
+    const fields = new Set([...Object.keys(before[key] ?? {}), ...Object.keys(after[key] ?? {})]);
+    const columns = [...fields].filter((field) => before[key]?.[field as PartField] !== after[key]?.[field as PartField] && !(editing && editing.rowIndex === node.rowIndex && editing.column?.getColId() === field));
+    if (columns.length > 0) api.refreshCells({ rowNodes: [node], columns });
+  }
+}
+
+/**
+ * Opens a cell's editor for typing, keeping what is typed before it is there. React mounts the editor
+ * a frame or two later, and a fast typist's first letters after "Add part" went nowhere; they are
+ * held and handed to the editor when it takes the keyboard.
+ */
+export function openEditorKeepingKeys(api: GridApi<PartRow>, rowIndex: number, colKey: PartField) {
+  let held = "";
+  const editorInput = () => {
+    const active = document.activeElement;
+    return active instanceof HTMLInputElement && active.closest(`.ag-cell-inline-editing[col-id="${colKey}"]`) ? active : null;
+  };
+  const release = () => {
+    document.removeEventListener("keydown", hold, true);
+    document.removeEventListener("focusin", onFocus, true);
+    clearTimeout(timer);
+    const input = editorInput();
+    if (input && held) {
+      input.value += held;
+      input.dispatchEvent(new Event("input", { bubbles: true }));
+    }
+    held = "";
+  };
+  function hold(event: KeyboardEvent) {
+    if (editorInput()) return release();
+    if (event.key.length !== 1 || event.ctrlKey || event.metaKey || event.altKey) return;
+    held += event.key;
+    event.preventDefault();
+    event.stopImmediatePropagation();
+  }
+  function onFocus() {
+    if (editorInput()) release();
+  }
+  document.addEventListener("keydown", hold, true);
+  document.addEventListener("focusin", onFocus, true);
+  const timer = setTimeout(release, 2000);
+  // After the new row is drawn, so the editor's input (not just the cell) gets the keyboard.
+  requestAnimationFrame(() => {
+    api.setFocusedCell(rowIndex, colKey);
+    api.startEditingCell({ rowIndex, colKey });
+  });
+}
+
 export function allRows(api: GridApi<PartRow>): PartRow[] {
   const rows: PartRow[] = [];
   api.forEachNode((node) => node.data && rows.push({ ...node.data }));
@@ -82,6 +141,38 @@ function RemoveCell({ data, context }: CustomCellRendererProps<PartRow>) {
     >
       ×
     </button>
+  );
+}
+
+/**
+ * The text editor for name and sizes: an input whose text lives in React state. AG Grid now and then
+ * gives an open editor a fresh start (Tab redraws the row while React is still mounting the editor);
+ * its own editor then went back to the cell's old value and lost the keys typed since Tab, most often
+ * on a slow tablet. This one keeps what was typed and tells the grid again.
+ */
+function TextCellEditor({ value, eventKey, onValueChange }: CustomCellEditorProps<PartRow, string>) {
+  const [text, setText] = useState(() => (eventKey?.length === 1 ? eventKey : eventKey === "Backspace" || eventKey === "Delete" ? "" : (value ?? "")));
+  const input = useRef<HTMLInputElement>(null);
+  // Only on a fresh start (a fresh callback): the grid hears the typed text again. Typing reports itself.
+  useEffect(() => onValueChange(text), [onValueChange]);
+  useLayoutEffect(() => {
+    const el = input.current;
+    if (!el) return;
+    el.focus();
+    el.setSelectionRange(el.value.length, el.value.length);
+  }, []);
+  return (
+    <input
+      ref={input}
+      value={text}
+      onChange={(e) => {
+        setText(e.target.value);
+        onValueChange(e.target.value);
+      }}
+      autoComplete="off"
+      spellCheck={false}
+      className="h-full w-full bg-white px-[11px] outline-none"
+    />
   );
 }
 
@@ -107,10 +198,11 @@ export function PartsGrid({
   onReady: () => void;
 }) {
   const errorsRef = useRef(errors);
+  const shownErrors = useRef(errors);
   errorsRef.current = errors;
-  // Class rules are applied on every refresh; a forced one would rebuild the cell being edited and eat keystrokes.
   useEffect(() => {
-    apiRef.current?.refreshCells();
+    if (apiRef.current) refreshChangedCells(apiRef.current, shownErrors.current, errors);
+    shownErrors.current = errors;
   }, [errors, apiRef]);
 
   const rowData = useMemo(() => initialRows.map((r) => ({ ...r })), [initialRows]);
@@ -165,9 +257,9 @@ export function PartsGrid({
   const columns = useMemo<ColDef<PartRow>[]>(() => {
     const editable = !readOnly;
     const cols: ColDef<PartRow>[] = [
-      { field: "name", headerName: "Part", editable, flex: 2, minWidth: 150, cellClassRules: BAD_CELL },
-      { field: "length", headerName: `Length (${unit})`, editable, flex: 1, minWidth: 120, cellClassRules: BAD_CELL },
-      { field: "width", headerName: `Width (${unit})`, editable, flex: 1, minWidth: 120, cellClassRules: BAD_CELL },
+      { field: "name", headerName: "Part", editable, flex: 2, minWidth: 150, cellEditor: TextCellEditor, cellClassRules: BAD_CELL },
+      { field: "length", headerName: `Length (${unit})`, editable, flex: 1, minWidth: 120, cellEditor: TextCellEditor, cellClassRules: BAD_CELL },
+      { field: "width", headerName: `Width (${unit})`, editable, flex: 1, minWidth: 120, cellEditor: TextCellEditor, cellClassRules: BAD_CELL },
       {
         field: "materialId",
         headerName: "Material",

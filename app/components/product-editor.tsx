@@ -6,7 +6,7 @@ import { useCallback, useMemo, useRef, useState, type FormEvent } from "react";
 import { Form, Link, useSearchParams } from "react-router";
 import { Field, FormAlert, SubmitButton } from "./forms";
 import { PageHeader } from "./page-header";
-import { allRows, PartsGrid } from "./parts-grid";
+import { allRows, openEditorKeepingKeys, PartsGrid } from "./parts-grid";
 import { PART_FIELD_LABELS, validatePartRows, type PartContext, type PartField, type PartRow, type ProductResult, type ProductValues, type RowErrors } from "~/lib/catalogue";
 
 export type ProductEditorProps = {
@@ -69,11 +69,7 @@ function Editor({ productId, values, currency, materials, parts: ctx, canWrite, 
     api.applyTransaction({ add: [row] });
     setRows(allRows(api));
     const index = api.getRowNode(row.key)?.rowIndex ?? api.getDisplayedRowCount() - 1;
-    // After the new row is drawn, so the editor's input (not just the cell) gets the keyboard.
-    requestAnimationFrame(() => {
-      api.setFocusedCell(index, "name");
-      api.startEditingCell({ rowIndex: index, colKey: "name" });
-    });
+    openEditorKeepingKeys(api, index, "name");
   }
 
   function onSubmit(event: FormEvent<HTMLFormElement>) {
