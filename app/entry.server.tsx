@@ -1,5 +1,5 @@
 import { randomBytes } from "node:crypto";
-import { PassThrough } from "node:stream";
+import { Transform } from "node:stream";
 import { createReadableStreamFromReadable } from "@react-router/node";
 import { isbot } from "isbot";
 import type { RenderToPipeableStreamOptions } from "react-dom/server";
@@ -21,6 +21,39 @@ function setDocumentHeaders(headers: Headers, nonce: string) {
   headers.set("Content-Security-Policy", `script-src 'self' 'nonce-${nonce}'; frame-ancestors 'none'; base-uri 'self'; form-action 'self'; object-src 'none'`);
 }
 
+/**
+ * React writes a page in 4 kB pieces; each piece would go on through the web stream, compression
+ * and the socket one by one. This joins what React writes within one turn of the event loop into
+ * one chunk, so a page leaves in a few large writes. `onEnd` runs once the last byte is through.
+ */
+function coalescingStream(onEnd: () => void): Transform {
+  let pieces: Buffer[] = [];
+  let scheduled = false;
+  const stream = new Transform({
+    transform(chunk: Buffer, _encoding, callback) {
+      pieces.push(chunk);
+      if (!scheduled) {
+        scheduled = true;
+        setImmediate(release);
+      }
+      callback();
+    },
+    flush(callback) {
+      release();
+      onEnd();
+      callback();
+    },
+  });
+  function release() {
+    scheduled = false;
+    if (!pieces.length) return;
+    const joined = pieces.length === 1 ? pieces[0] : Buffer.concat(pieces);
+    pieces = [];
+    stream.push(joined);
+  }
+  return stream;
+}
+
 export default function handleRequest(request: Request, responseStatusCode: number, responseHeaders: Headers, routerContext: EntryContext) {
   if (request.method.toUpperCase() === "HEAD") {
     return new Response(null, { status: responseStatusCode, headers: responseHeaders });
@@ -39,12 +72,9 @@ export default function handleRequest(request: Request, responseStatusCode: numb
       nonce,
       [readyOption]() {
         shellRendered = true;
-        const body = new PassThrough({
-          final(callback) {
-            clearTimeout(timeoutId);
-            timeoutId = undefined;
-            callback();
-          },
+        const body = coalescingStream(() => {
+          clearTimeout(timeoutId);
+          timeoutId = undefined;
         });
         setDocumentHeaders(responseHeaders, nonce);
         pipe(body);

@@ -3,6 +3,7 @@
 import { createRequestHandler } from "@react-router/express";
 import compression from "compression";
 import express from "express";
+import { constants as zlibConstants } from "node:zlib";
 import { extname } from "node:path";
 import { fileURLToPath } from "node:url";
 
@@ -15,7 +16,9 @@ const build = await import(/* @vite-ignore */ `${buildDir}/server/index.js`);
 
 const app = express();
 app.disable("x-powered-by");
-app.use(compression());
+// Brotli at quality 2 rather than the package's 4: on a 75 kB batch page it took half the time for a
+// body 7 % larger (14.5 kB against 13.6 kB), and pages are made per request, never compressed ahead.
+app.use(compression({ brotli: { params: { [zlibConstants.BROTLI_PARAM_QUALITY]: 2 } } }));
 app.use("/assets", express.static(`${buildDir}/client/assets`, { immutable: true, maxAge: "1y" }));
 // The other public files (favicon.svg) have an extension; pages have none and skip the file look-up.
 const publicFiles = express.static(`${buildDir}/client`, { maxAge: "1h", index: false });

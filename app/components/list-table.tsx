@@ -1,10 +1,15 @@
 import type { ReactNode } from "react";
-import { Form, Link, useSearchParams } from "react-router";
+import { Form, useSearchParams } from "react-router";
+import { useRouterClicks } from "./router-clicks";
 import { listHref, pageCount } from "~/lib/listing";
 
 export type Column<T> = { key: string; label: string; sortable?: boolean; align?: "right"; cell: (row: T) => ReactNode };
 
-/** A server-sorted, server-paged table: every control is a plain link or GET form, so it works before scripts load. */
+/**
+ * A server-sorted, server-paged table: every control is a plain link or GET form, so it works before
+ * scripts load; with scripts, the links go through the router (useRouterClicks). Cell styles sit on
+ * the table, not on every cell.
+ */
 export function ListTable<T extends { id: string }>({ rows, columns, total, page, size, sort, dir, empty }: {
   rows: T[];
   columns: Column<T>[];
@@ -17,19 +22,20 @@ export function ListTable<T extends { id: string }>({ rows, columns, total, page
 }) {
   const [params] = useSearchParams();
   const pages = pageCount(total, size);
+  const routerClicks = useRouterClicks();
   return (
-    <div className="space-y-3">
+    <div className="space-y-3" onClick={routerClicks}>
       <div className="overflow-x-auto rounded-lg border border-line bg-card">
-        <table className="w-full min-w-[40rem] text-left text-sm">
+        <table className="w-full min-w-[40rem] text-left text-sm [&_td]:px-4 [&_td]:py-3">
           <thead className="border-b border-line bg-paper/60 text-xs uppercase tracking-wider text-muted">
             <tr>
               {columns.map((c) => (
                 <th key={c.key} scope="col" className={`px-4 py-3 font-semibold ${c.align === "right" ? "text-right" : ""}`} aria-sort={sort === c.key ? (dir === "asc" ? "ascending" : "descending") : undefined}>
                   {c.sortable ? (
-                    <Link to={listHref(params, { sort: c.key, dir: sort === c.key && dir === "asc" ? "desc" : "asc" })} className="inline-flex items-center gap-1 hover:text-ink">
+                    <a href={listHref(params, { sort: c.key, dir: sort === c.key && dir === "asc" ? "desc" : "asc" })} className="inline-flex items-center gap-1 hover:text-ink">
                       {c.label}
                       <span aria-hidden="true">{sort === c.key ? (dir === "asc" ? "▲" : "▼") : "↕"}</span>
-                    </Link>
+                    </a>
                   ) : (
                     c.label
                   )}
@@ -40,7 +46,7 @@ export function ListTable<T extends { id: string }>({ rows, columns, total, page
           <tbody className="divide-y divide-line">
             {rows.length === 0 ? (
               <tr>
-                <td colSpan={columns.length} className="px-4 py-8 text-center text-muted">
+                <td colSpan={columns.length} className="py-8! text-center text-muted">
                   {empty}
                 </td>
               </tr>
@@ -48,7 +54,7 @@ export function ListTable<T extends { id: string }>({ rows, columns, total, page
               rows.map((row) => (
                 <tr key={row.id} className="hover:bg-paper/60">
                   {columns.map((c) => (
-                    <td key={c.key} className={`px-4 py-3 ${c.align === "right" ? "text-right tabular-nums" : ""}`}>
+                    <td key={c.key} className={c.align === "right" ? "text-right tabular-nums" : undefined}>
                       {c.cell(row)}
                     </td>
                   ))}
@@ -81,9 +87,9 @@ export function ListTable<T extends { id: string }>({ rows, columns, total, page
 function PageLink({ to, disabled, children }: { to: string; disabled: boolean; children: ReactNode }) {
   if (disabled) return <span className="rounded-md border border-line px-3 py-2 opacity-40">{children}</span>;
   return (
-    <Link to={to} className="rounded-md border border-line bg-white px-3 py-2 text-ink hover:border-edge">
+    <a href={to} className="rounded-md border border-line bg-white px-3 py-2 text-ink hover:border-edge">
       {children}
-    </Link>
+    </a>
   );
 }
 

@@ -1,8 +1,9 @@
 import { and, asc, desc, eq, inArray, isNull, lte, notExists, sql } from "drizzle-orm";
-import { batches, batchLines, customers, heldLines, materials, orderLines, orders, plans, productParts, products, recutParts, shops } from "../../db/schema";
+import { batches, batchLines, customers, heldLines, kerfMeasurements, materials, offcuts, orderLines, orders, plans, productParts, products, recutParts, saws, shops, sleds } from "../../db/schema";
 import { getDb } from "~/db.server";
 import type { BatchSource } from "~/lib/batch-parts";
 import { batchCode } from "~/lib/batches";
+import { preparedOnce } from "./prepared.server";
 
 export class BatchStateError extends Error {}
 
@@ -131,49 +132,50 @@ export async function listHeldLines(shopId: string) {
     .orderBy(asc(orders.number));
 }
 
+const batchHeaderColumns = {
+  id: batches.id,
+  number: batches.number,
+  status: batches.status,
+  dueBy: batches.dueBy,
+  chosenPlanId: batches.chosenPlanId,
+  releasedAt: batches.releasedAt,
+  materialId: materials.id,
+  materialName: materials.name,
+  thicknessUm: materials.thicknessUm,
+};
+const byBatchAndShop = and(eq(batches.id, sql.placeholder("batchId")), eq(batches.shopId, sql.placeholder("shopId")));
+
+const batchHeader = preparedOnce((db) => db.select(batchHeaderColumns).from(batches).innerJoin(materials, eq(materials.id, batches.materialId)).where(byBatchAndShop).prepare("batch_header"));
+
+const lineColumns = { lineId: orderLines.id, orderId: orders.id, orderNumber: orders.number, customerName: customers.name, productName: products.name, quantity: orderLines.quantity, dueDate: orders.dueDate };
+
+const batchLineRows = preparedOnce((db) =>
+  db
+    .select(lineColumns)
+    .from(batchLines)
+    .innerJoin(orderLines, eq(orderLines.id, batchLines.orderLineId))
+    .innerJoin(orders, eq(orders.id, orderLines.orderId))
+    .innerJoin(customers, eq(customers.id, orders.customerId))
+    .innerJoin(products, eq(products.id, orderLines.productId))
+    .where(eq(batchLines.batchId, sql.placeholder("batchId")))
+    .orderBy(asc(orders.number), asc(products.name), asc(orderLines.id))
+    .prepare("batch_lines"),
+);
+
+export type BatchLine = Awaited<ReturnType<ReturnType<typeof batchLineRows>["execute"]>>[number];
+
 export async function getBatch(shopId: string, batchId: string) {
-  const db = getDb();
   // Both reads at once; the lines count only when the batch is this shop's.
-  const [[batch], lines] = await Promise.all([
-    db
-      .select({
-        id: batches.id,
-        number: batches.number,
-        status: batches.status,
-        dueBy: batches.dueBy,
-        chosenPlanId: batches.chosenPlanId,
-        releasedAt: batches.releasedAt,
-        materialId: materials.id,
-        materialName: materials.name,
-        thicknessUm: materials.thicknessUm,
-      })
-      .from(batches)
-      .innerJoin(materials, eq(materials.id, batches.materialId))
-      .where(and(eq(batches.id, batchId), eq(batches.shopId, shopId))),
-    db
-      .select({ lineId: orderLines.id, orderId: orders.id, orderNumber: orders.number, customerName: customers.name, productName: products.name, quantity: orderLines.quantity, dueDate: orders.dueDate })
-      .from(batchLines)
-      .innerJoin(orderLines, eq(orderLines.id, batchLines.orderLineId))
-      .innerJoin(orders, eq(orders.id, orderLines.orderId))
-      .innerJoin(customers, eq(customers.id, orders.customerId))
-      .innerJoin(products, eq(products.id, orderLines.productId))
-      .where(eq(batchLines.batchId, batchId))
-      .orderBy(asc(orders.number), asc(products.name)),
-  ]);
+  const [[batch], lines] = await Promise.all([batchHeader().execute({ batchId, shopId }), batchLineRows().execute({ batchId })]);
   if (!batch) return null;
   return { ...batch, code: batchCode(batch.number), lines };
 }
 
-/** The product parts of the batch's material, one row per part of each line, for merging into the cut list. */
-export async function batchSources(batchId: string, db: Db = getDb()): Promise<BatchSource[]> {
-  const rows = await db
+/** Each line of the batch with each of its product's parts of the batch's material (a line whose product lost them meanwhile comes once, part columns null). */
+function contentsQuery(db: Db) {
+  return db
     .select({
-      orderId: orders.id,
-      orderNumber: orders.number,
-      customerName: customers.name,
-      lineId: orderLines.id,
-      productName: products.name,
-      lineQuantity: orderLines.quantity,
+      ...lineColumns,
       personalisation: orderLines.personalisation,
       partName: productParts.name,
       lengthUm: productParts.lengthUm,
@@ -187,14 +189,46 @@ export async function batchSources(batchId: string, db: Db = getDb()): Promise<B
     .innerJoin(orders, eq(orders.id, orderLines.orderId))
     .innerJoin(customers, eq(customers.id, orders.customerId))
     .innerJoin(products, eq(products.id, orderLines.productId))
-    .innerJoin(productParts, and(eq(productParts.productId, products.id), eq(productParts.materialId, batchLines.materialId)))
-    .where(eq(batchLines.batchId, batchId))
-    .orderBy(asc(orders.number), asc(orderLines.id), asc(productParts.name));
+    .leftJoin(productParts, and(eq(productParts.productId, products.id), eq(productParts.materialId, batchLines.materialId)))
+    .where(eq(batchLines.batchId, sql.placeholder("batchId")))
+    .orderBy(asc(orders.number), asc(products.name), asc(orderLines.id), asc(productParts.name))
+    .prepare("batch_contents");
+}
+
+function recutsQuery(db: Db) {
+  return db.select().from(recutParts).where(eq(recutParts.batchId, sql.placeholder("batchId"))).orderBy(asc(recutParts.createdAt)).prepare("batch_recuts");
+}
+
+const poolContents = preparedOnce(contentsQuery);
+const poolRecuts = preparedOnce(recutsQuery);
+
+/** The batch's lines and, one row per part of each line, its sources for merging into the cut list; one read for both. */
+export async function batchContents(batchId: string, db?: Db): Promise<{ lines: BatchLine[]; sources: BatchSource[] }> {
+  const [rows, recuts] = await Promise.all([(db ? contentsQuery(db) : poolContents()).execute({ batchId }), (db ? recutsQuery(db) : poolRecuts()).execute({ batchId })]);
+  const lines: BatchLine[] = [];
+  const sources: BatchSource[] = [];
+  for (const row of rows) {
+    if (lines.at(-1)?.lineId !== row.lineId) lines.push({ lineId: row.lineId, orderId: row.orderId, orderNumber: row.orderNumber, customerName: row.customerName, productName: row.productName, quantity: row.quantity, dueDate: row.dueDate });
+    if (row.partName === null) continue;
+    sources.push({
+      orderId: row.orderId,
+      orderNumber: row.orderNumber,
+      customerName: row.customerName,
+      lineId: row.lineId,
+      productName: row.productName,
+      lineQuantity: row.quantity,
+      personalisation: row.personalisation,
+      partName: row.partName,
+      lengthUm: row.lengthUm!,
+      widthUm: row.widthUm!,
+      quantityPerItem: row.quantityPerItem!,
+      grainLocked: row.grainLocked!,
+      process: row.process!,
+    });
+  }
   // A part to cut again is one item of its own, carrying the origin it had.
-  const recuts = await db.select().from(recutParts).where(eq(recutParts.batchId, batchId)).orderBy(asc(recutParts.createdAt));
-  return [
-    ...rows,
-    ...recuts.map((r) => ({
+  for (const r of recuts) {
+    sources.push({
       orderId: r.origin?.orderId ?? r.id,
       orderNumber: r.origin?.orderNumber ?? 0,
       customerName: r.origin?.customerName ?? "Recut",
@@ -209,15 +243,45 @@ export async function batchSources(batchId: string, db: Db = getDb()): Promise<B
       quantityPerItem: 1,
       grainLocked: r.grainLocked,
       process: r.process,
-    })),
-  ];
+    });
+  }
+  return { lines, sources };
 }
 
-async function lockOpenBatch(tx: Tx, shopId: string, batchId: string) {
-  const [batch] = await tx.select({ id: batches.id, status: batches.status, materialId: batches.materialId }).from(batches).where(and(eq(batches.id, batchId), eq(batches.shopId, shopId))).for("update");
-  if (!batch) return null;
-  if (batch.status !== "open" && batch.status !== "planned") throw new BatchStateError("This batch has gone to the saw; its lines no longer change.");
-  return batch;
+/** The product parts of the batch's material, one row per part of each line, for merging into the cut list. */
+export async function batchSources(batchId: string, db?: Db): Promise<BatchSource[]> {
+  return (await batchContents(batchId, db)).sources;
+}
+
+/** What the batch page reads on every view, at once: the batch with its shop's settings, its lines and its sources. Null: not this shop's. */
+export async function batchPage(shopId: string, batchId: string) {
+  const [[header], contents] = await Promise.all([batchWithShop().execute({ batchId, shopId }), batchContents(batchId)]);
+  if (!header) return null;
+  const { shop, ...batch } = header;
+  return { batch: { ...batch, code: batchCode(batch.number) }, shop, ...contents };
+}
+
+const batchWithShop = preparedOnce((db) =>
+  db
+    .select({ ...batchHeaderColumns, shop: shops })
+    .from(batches)
+    .innerJoin(materials, eq(materials.id, batches.materialId))
+    .innerJoin(shops, eq(shops.id, batches.shopId))
+    .where(byBatchAndShop)
+    .prepare("batch_with_shop"),
+);
+
+/** Locks the batches (in id order, so two planners moving lines both ways cannot deadlock); null when one is not found in this shop. */
+async function lockOpenBatches(tx: Tx, shopId: string, batchIds: string[]) {
+  const rows = await tx
+    .select({ id: batches.id, status: batches.status, materialId: batches.materialId })
+    .from(batches)
+    .where(and(inArray(batches.id, batchIds), eq(batches.shopId, shopId)))
+    .orderBy(asc(batches.id))
+    .for("update");
+  if (rows.length !== new Set(batchIds).size) return null;
+  if (rows.some((b) => b.status !== "open" && b.status !== "planned")) throw new BatchStateError("This batch has gone to the saw; its lines no longer change.");
+  return batchIds.map((id) => rows.find((b) => b.id === id)!);
 }
 
 // A batch whose lines change no longer matches its plans: they go, and it is open again.
@@ -226,36 +290,63 @@ async function discardPlans(tx: Tx, batchId: string) {
   await tx.update(batches).set({ status: "open", chosenPlanId: null }).where(eq(batches.id, batchId));
 }
 
-/** Moves a line to another open batch of the same material. False: a batch or the line is not found here. */
-export async function moveLine(shopId: string, batchId: string, lineId: string, targetBatchId: string): Promise<boolean> {
-  return getDb().transaction(async (tx) => {
-    const from = await lockOpenBatch(tx, shopId, batchId);
-    const to = await lockOpenBatch(tx, shopId, targetBatchId);
-    if (!from || !to) return false;
-    if (from.materialId !== to.materialId) throw new BatchStateError("Lines move only between batches of the same material.");
-    const moved = await tx
-      .update(batchLines)
-      .set({ batchId: to.id })
-      .where(and(eq(batchLines.batchId, from.id), eq(batchLines.orderLineId, lineId)))
-      .returning({ id: batchLines.orderLineId });
-    if (!moved.length) return false;
-    await discardPlans(tx, from.id);
-    await discardPlans(tx, to.id);
-    return true;
-  });
+/** Thrown inside a transaction to undo it when a line is not in the batch; the caller answers "not found". */
+class LineNotInBatch extends Error {}
+
+async function unlessMissing(work: Promise<boolean>): Promise<boolean> {
+  try {
+    return await work;
+  } catch (error) {
+    if (error instanceof LineNotInBatch) return false;
+    throw error;
+  }
 }
 
-/** Holds a line back: out of this batch and out of proposals until the hold is lifted. */
-export async function holdLine(shopId: string, batchId: string, lineId: string): Promise<boolean> {
-  return getDb().transaction(async (tx) => {
-    const batch = await lockOpenBatch(tx, shopId, batchId);
-    if (!batch) return false;
-    const removed = await tx.delete(batchLines).where(and(eq(batchLines.batchId, batch.id), eq(batchLines.orderLineId, lineId))).returning({ materialId: batchLines.materialId });
-    if (!removed.length) return false;
-    await tx.insert(heldLines).values({ shopId, orderLineId: lineId, materialId: removed[0].materialId }).onConflictDoNothing();
-    await discardPlans(tx, batch.id);
-    return true;
-  });
+/**
+ * Moves lines to another open batch of the same material, all or none. False: a batch or one of
+ * the lines is not found here (nothing moved).
+ */
+export async function moveLines(shopId: string, batchId: string, lineIds: string[], targetBatchId: string): Promise<boolean> {
+  const ids = [...new Set(lineIds)];
+  return unlessMissing(
+    getDb().transaction(async (tx) => {
+      const locked = await lockOpenBatches(tx, shopId, [batchId, targetBatchId]);
+      if (!locked || !ids.length) return false;
+      const [from, to] = locked;
+      if (from.materialId !== to.materialId) throw new BatchStateError("Lines move only between batches of the same material.");
+      const moved = await tx
+        .update(batchLines)
+        .set({ batchId: to.id })
+        .where(and(eq(batchLines.batchId, from.id), inArray(batchLines.orderLineId, ids)))
+        .returning({ id: batchLines.orderLineId });
+      if (moved.length !== ids.length) throw new LineNotInBatch();
+      await discardPlans(tx, from.id);
+      await discardPlans(tx, to.id);
+      return true;
+    }),
+  );
+}
+
+/** Holds lines back, all or none: out of this batch and out of proposals until the hold is lifted. */
+export async function holdLines(shopId: string, batchId: string, lineIds: string[]): Promise<boolean> {
+  const ids = [...new Set(lineIds)];
+  return unlessMissing(
+    getDb().transaction(async (tx) => {
+      const locked = await lockOpenBatches(tx, shopId, [batchId]);
+      if (!locked || !ids.length) return false;
+      const removed = await tx
+        .delete(batchLines)
+        .where(and(eq(batchLines.batchId, batchId), inArray(batchLines.orderLineId, ids)))
+        .returning({ lineId: batchLines.orderLineId, materialId: batchLines.materialId });
+      if (removed.length !== ids.length) throw new LineNotInBatch();
+      await tx
+        .insert(heldLines)
+        .values(removed.map((r) => ({ shopId, orderLineId: r.lineId, materialId: r.materialId })))
+        .onConflictDoNothing();
+      await discardPlans(tx, batchId);
+      return true;
+    }),
+  );
 }
 
 export async function releaseHold(shopId: string, lineId: string, materialId: string): Promise<boolean> {
@@ -266,12 +357,32 @@ export async function releaseHold(shopId: string, lineId: string, materialId: st
   return rows.length > 0;
 }
 
-/** Other batches a line of this batch may move to. */
-export async function siblingBatches(shopId: string, batchId: string, materialId: string) {
-  const rows = await getDb()
-    .select({ id: batches.id, number: batches.number })
-    .from(batches)
-    .where(and(eq(batches.shopId, shopId), eq(batches.materialId, materialId), inArray(batches.status, ["open", "planned"])))
-    .orderBy(asc(batches.number));
-  return rows.filter((b) => b.id !== batchId).map((b) => ({ ...b, code: batchCode(b.number) }));
+/**
+ * What changing an open batch offers, in one round trip: the other open batches of its material
+ * (where lines may move), the material's racked offcuts largest first, each saw with its latest
+ * measured kerf, and each sled's stop range.
+ */
+const changeChoicesQuery = preparedOnce((db) => {
+  const shopId = sql.placeholder("shopId");
+  const materialId = sql.placeholder("materialId");
+  const latestKerf = sql`(select ${kerfMeasurements.kerfUm} from ${kerfMeasurements} where ${kerfMeasurements.sawId} = ${saws.id} and ${kerfMeasurements.shopId} = ${saws.shopId} order by ${kerfMeasurements.measuredAt} desc, ${kerfMeasurements.id} desc limit 1)`;
+  return db
+    .select({
+      siblings: sql<{ id: string; number: number }[]>`(select coalesce(json_agg(json_build_object('id', ${batches.id}, 'number', ${batches.number}) order by ${batches.number}), '[]')
+        from ${batches} where ${batches.shopId} = ${shopId} and ${batches.materialId} = ${materialId} and ${batches.status} in ('open', 'planned') and ${batches.id} <> ${sql.placeholder("batchId")})`,
+      offcuts: sql<{ id: string; lengthUm: number; widthUm: number; location: string }[]>`(select coalesce(json_agg(json_build_object('id', ${offcuts.id}, 'lengthUm', ${offcuts.lengthUm}, 'widthUm', ${offcuts.widthUm}, 'location', ${offcuts.location}) order by ${offcuts.lengthUm}::bigint * ${offcuts.widthUm} desc), '[]')
+        from ${offcuts} where ${offcuts.shopId} = ${shopId} and ${offcuts.materialId} = ${materialId} and ${offcuts.status} = 'racked')`,
+      saws: sql<{ id: string; name: string; latestKerfUm: number | null }[]>`(select coalesce(json_agg(json_build_object('id', ${saws.id}, 'name', ${saws.name}, 'latestKerfUm', ${latestKerf}) order by ${saws.name}, ${saws.id}), '[]')
+        from ${saws} where ${saws.shopId} = ${shopId})`,
+      sleds: sql<{ id: string; name: string; stopMinUm: number; stopMaxUm: number }[]>`(select coalesce(json_agg(json_build_object('id', ${sleds.id}, 'name', ${sleds.name}, 'stopMinUm', ${sleds.stopMinUm}, 'stopMaxUm', ${sleds.stopMaxUm}) order by ${sleds.name}, ${sleds.id}), '[]')
+        from ${sleds} where ${sleds.shopId} = ${shopId})`,
+    })
+    .from(shops)
+    .where(eq(shops.id, shopId))
+    .prepare("batch_change_choices");
+});
+
+export async function changeChoices(shopId: string, batch: { id: string; materialId: string }) {
+  const [row] = await changeChoicesQuery().execute({ shopId, materialId: batch.materialId, batchId: batch.id });
+  return { ...row, siblings: row.siblings.map((b) => ({ ...b, code: batchCode(b.number) })) };
 }

@@ -58,8 +58,11 @@ export async function listOrders(shopId: string, query: ListQuery<OrderSort>): P
       .where(where)
       .orderBy(query.dir === "asc" ? asc(sortColumn) : desc(sortColumn), desc(orders.number))
       .limit(query.size)
-      .offset((query.page - 1) * query.size),
-    db.select({ total: count() }).from(orders).innerJoin(customers, eq(customers.id, orders.customerId)).where(where),
+      .offset((query.page - 1) * query.size)
+      // Prepared: each sort and filter is one statement text, kept per connection, so PostgreSQL plans it once.
+      .prepare("orders_page")
+      .execute(),
+    db.select({ total: count() }).from(orders).innerJoin(customers, eq(customers.id, orders.customerId)).where(where).prepare("orders_count").execute(),
   ]);
   return { rows: rows.map((r) => ({ ...r, totalMinor: Number(r.totalMinor) })), total };
 }

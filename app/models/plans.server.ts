@@ -3,6 +3,7 @@ import { batches, offcuts, plans, stockPanels, users, type PlanProgress, type Pl
 import { getDb } from "~/db.server";
 import { PLAN_QUEUE, queue, type PlanJobData } from "~/jobs/queue.server";
 import type { Plan } from "~/lib/packing/types";
+import { preparedOnce } from "./prepared.server";
 import type { StockRef } from "./plan-job.server";
 
 export class PlanStateError extends Error {}
@@ -42,8 +43,17 @@ const summaryColumns = {
   finishedAt: plans.finishedAt,
 };
 
+const batchPlans = preparedOnce((db) =>
+  db
+    .select(summaryColumns)
+    .from(plans)
+    .where(and(eq(plans.shopId, sql.placeholder("shopId")), eq(plans.batchId, sql.placeholder("batchId"))))
+    .orderBy(desc(plans.number))
+    .prepare("batch_plans"),
+);
+
 export async function listPlans(shopId: string, batchId: string): Promise<PlanSummary[]> {
-  return getDb().select(summaryColumns).from(plans).where(and(eq(plans.shopId, shopId), eq(plans.batchId, batchId))).orderBy(desc(plans.number));
+  return batchPlans().execute({ shopId, batchId });
 }
 
 export async function getPlan(shopId: string, batchId: string, planId: string) {

@@ -2,15 +2,6 @@ import { and, asc, eq, inArray } from "drizzle-orm";
 import { batches, materials, offcuts, stockPanels } from "../../db/schema";
 import { getDb } from "~/db.server";
 
-/** Offcuts of a material on the rack now, largest first: the ones a plan may use. */
-export async function rackedOffcuts(shopId: string, materialId: string) {
-  const rows = await getDb()
-    .select({ id: offcuts.id, lengthUm: offcuts.lengthUm, widthUm: offcuts.widthUm, location: offcuts.location })
-    .from(offcuts)
-    .where(and(eq(offcuts.shopId, shopId), eq(offcuts.materialId, materialId), eq(offcuts.status, "racked")));
-  return rows.sort((a, b) => b.lengthUm * b.widthUm - a.lengthUm * a.widthUm);
-}
-
 /** The rack and the sheet stock, per material. */
 export async function rackOverview(shopId: string) {
   const db = getDb();

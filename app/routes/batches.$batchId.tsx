@@ -8,6 +8,7 @@ import { BatchBadge } from "~/components/batch-badge";
 import { FormAlert, SelectField, SubmitButton } from "~/components/forms";
 import { PageHeader } from "~/components/page-header";
 import { PlanCompare, PlanCard } from "~/components/plan-cards";
+import { useRouterClicks } from "~/components/router-clicks";
 import { formatDate } from "~/lib/dates";
 import { releaseEmail } from "~/lib/emails";
 import { parseForm } from "~/lib/forms";
@@ -15,27 +16,22 @@ import { can } from "~/lib/permissions";
 import { PlanSettingsSchema } from "~/lib/plan-settings";
 import { formatLength, formatSize } from "~/lib/units";
 import { publicOrigin, sendMail } from "~/mail.server";
-import { batchSources, BatchStateError, getBatch, holdLine, moveLine, siblingBatches } from "~/models/batches.server";
-import { rackedOffcuts } from "~/models/rack.server";
+import { batchPage, BatchStateError, changeChoices, getBatch, holdLines, moveLines } from "~/models/batches.server";
 import { cutListOf } from "~/models/plan-job.server";
 import { cancelPlan, listPlans, PlanStateError, releasePlan, requestPlan, sawyersOf, type PlanSummary } from "~/models/plans.server";
-import { getShop } from "~/models/shops.server";
-import { listSaws, listSleds } from "~/models/sleds.server";
 import { timed } from "~/timing.server";
 
 const Uuid = v.pipe(v.string(), v.uuid());
-const HOLD_FORM = "hold-line";
 
 export async function loader(args: Route.LoaderArgs) {
   const user = requirePermission(args, "batches:read");
   if (!v.is(Uuid, args.params.batchId)) throw data("No such batch in this shop.", { status: 404 });
   const batchId = args.params.batchId;
   // Everything that needs only the ids at once; what is read for another shop's id is thrown away.
-  const [batch, shop, sources, plans, saws, sleds] = await timed("queries", () =>
-    Promise.all([getBatch(user.shopId, batchId), getShop(user.shopId), batchSources(batchId), listPlans(user.shopId, batchId), listSaws(user.shopId), listSleds(user.shopId)]),
-  );
-  if (!batch) throw data("No such batch in this shop.", { status: 404 });
-  const [siblings, offcuts] = await timed("queries", () => Promise.all([siblingBatches(user.shopId, batch.id, batch.materialId), rackedOffcuts(user.shopId, batch.materialId)]));
+  const [page, plans] = await timed("queries", () => Promise.all([batchPage(user.shopId, batchId), listPlans(user.shopId, batchId)]));
+  if (!page) throw data("No such batch in this shop.", { status: 404 });
+  const { batch, shop, lines, sources } = page;
+  const editable = can(user.role, "batches:write") && (batch.status === "open" || batch.status === "planned");
   const cutList = await timed("merge", () => cutListOf(sources, shop));
   const unit = shop.displayUnit;
   const parts = cutList.sawn.map((p) => ({
@@ -48,26 +44,43 @@ export async function loader(args: Route.LoaderArgs) {
     orders: new Set(p.origins.map((o) => o.orderId)).size,
   }));
   return {
-    batch,
+    batch: { id: batch.id, code: batch.code, status: batch.status, dueBy: batch.dueBy, materialName: batch.materialName, chosenPlanId: batch.chosenPlanId },
+    lines,
     parts,
     laser: { items: cutList.laser.reduce((n, p) => n + p.quantity, 0), blanks: cutList.blanks.length, bed: formatSize(shop.laserBedLengthUm, shop.laserBedWidthUm, unit), unplaced: cutList.laserUnplaced },
     plans,
-    siblings,
+    // What changing the batch needs (other batches, the plan form's saws, sleds and offcuts) is read only while it can change.
+    changes: editable ? await timed("queries", () => batchChanges(user.shopId, batch, shop)) : null,
+    unit,
+    currency: shop.currency,
+    canSeeFloor: can(user.role, "floor:read"),
+  };
+}
+
+async function batchChanges(shopId: string, batch: { id: string; materialId: string }, shop: { kerfUm: number; edgeTrimUm: number; displayUnit: "mm" | "in" }) {
+  const { siblings, offcuts, saws, sleds } = await changeChoices(shopId, batch);
+  const unit = shop.displayUnit;
+  return {
+    siblings: siblings.map((s) => ({ id: s.id, code: s.code })),
     offcuts: offcuts.map((o) => ({ id: o.id, label: `${formatSize(o.lengthUm, o.widthUm, unit)}${o.location ? ` · ${o.location}` : ""}` })),
     // The kerf measured on the saw last comes first; the shop's default otherwise.
     defaults: { kerf: (saws.find((s) => s.latestKerfUm !== null)?.latestKerfUm ?? shop.kerfUm) / 1000, trim: shop.edgeTrimUm / 1000 },
     saws: saws.map((s) => ({ id: s.id, label: `${s.name}${s.latestKerfUm !== null ? ` · kerf measured ${s.latestKerfUm / 1000} mm` : " · kerf not measured"}`, kerfMm: s.latestKerfUm === null ? null : s.latestKerfUm / 1000 })),
     sleds: sleds.map((s) => ({ id: s.id, label: `${s.name} · stop ${formatLength(s.stopMinUm, unit)}–${formatLength(s.stopMaxUm, unit)}` })),
-    unit,
-    currency: shop.currency,
-    canWrite: can(user.role, "batches:write"),
-    canSeeFloor: can(user.role, "floor:read"),
   };
 }
 
+// The ticked lines of the shared move/hold form: every checkbox sends its line's id under one name.
+const LineIds = v.pipe(
+  v.array(v.string()),
+  v.minLength(1, "Tick one or more lines first."),
+  v.maxLength(10_000, "Too many lines at once."),
+  v.check((ids) => ids.every((id) => v.is(Uuid, id)), "The ticked lines could not be read. Reload the page and try again."),
+);
+
 const ActionSchema = v.variant("intent", [
-  v.object({ intent: v.literal("move-line"), lineId: Uuid, targetBatchId: v.pipe(v.string("Choose a batch."), v.uuid("Choose a batch.")) }),
-  v.object({ intent: v.literal("hold-line"), lineId: Uuid }),
+  v.object({ intent: v.literal("move-line"), lineId: LineIds, targetBatchId: v.pipe(v.string("Choose a batch."), v.uuid("Choose a batch.")) }),
+  v.object({ intent: v.literal("hold-line"), lineId: LineIds }),
   v.object({ intent: v.literal("run-plan") }),
   v.object({ intent: v.literal("cancel-plan"), planId: Uuid }),
   v.object({ intent: v.literal("release"), planId: Uuid }),
@@ -78,17 +91,18 @@ export async function action(args: Route.ActionArgs) {
   const batchId = args.params.batchId;
   if (!v.is(Uuid, batchId)) throw data("No such batch in this shop.", { status: 404 });
   const form = await args.request.formData();
-  const parsed = parseForm(ActionSchema, form, ["lineId", "targetBatchId", "planId"]);
+  const parsed = parseForm(ActionSchema, { ...Object.fromEntries(form), lineId: form.getAll("lineId").map(String) }, ["targetBatchId", "planId"]);
   if (!parsed.ok) return data({ errors: parsed.errors, notice: null }, { status: 400 });
   const input = parsed.data;
   const notFound = () => data("No such batch, line or plan in this shop.", { status: 404 });
   try {
     switch (input.intent) {
       case "move-line":
-        if (!(await moveLine(user.shopId, batchId, input.lineId, input.targetBatchId))) throw notFound();
+        if (input.targetBatchId === batchId) return data({ errors: { targetBatchId: "Choose another batch: the lines are in this one." }, notice: null }, { status: 400 });
+        if (!(await moveLines(user.shopId, batchId, input.lineId, input.targetBatchId))) throw notFound();
         break;
       case "hold-line":
-        if (!(await holdLine(user.shopId, batchId, input.lineId))) throw notFound();
+        if (!(await holdLines(user.shopId, batchId, input.lineId))) throw notFound();
         break;
       case "run-plan": {
         if (!(await getBatch(user.shopId, batchId))) throw notFound();
@@ -142,32 +156,34 @@ const fetchOrigins = async (url: string): Promise<Origins> => {
 /** "20 from 3 orders"; opening it reads which orders, copies and texts the row is for. */
 function PartOrigins({ batchId, part }: { batchId: string; part: { key: string; quantity: number; orders: number } }) {
   const [open, setOpen] = useState(false);
-  const { data, error } = useSWR(open ? `/api/batches/${batchId}/origins?part=${encodeURIComponent(part.key)}` : null, fetchOrigins);
   return (
     <details onToggle={(e) => setOpen(e.currentTarget.open)}>
       <summary className="cursor-pointer text-muted">
         {part.quantity} from {part.orders} order{part.orders === 1 ? "" : "s"}
       </summary>
-      {error ? (
-        <p className="mt-1 text-xs text-bad">{error.message}</p>
-      ) : !data ? (
-        <p className="mt-1 text-xs text-muted">Loading the orders…</p>
-      ) : (
-        <ul className="mt-1 max-h-48 space-y-0.5 overflow-y-auto text-xs">
-          {data.origins.map((o, i) => (
-            <li key={i}>{o}</li>
-          ))}
-          {data.quantity > data.origins.length && <li className="text-muted">… and {data.quantity - data.origins.length} more (all of them are on the labels)</li>}
-        </ul>
-      )}
+      {open && <OriginList url={`/api/batches/${batchId}/origins?part=${encodeURIComponent(part.key)}`} />}
     </details>
   );
 }
 
+function OriginList({ url }: { url: string }) {
+  const { data, error } = useSWR(url, fetchOrigins);
+  if (error) return <p className="mt-1 text-xs text-bad">{error.message}</p>;
+  if (!data) return <p className="mt-1 text-xs text-muted">Loading the orders…</p>;
+  return (
+    <ul className="mt-1 max-h-48 space-y-0.5 overflow-y-auto text-xs">
+      {data.origins.map((o, i) => (
+        <li key={i}>{o}</li>
+      ))}
+      {data.quantity > data.origins.length && <li className="text-muted">… and {data.quantity - data.origins.length} more (all of them are on the labels)</li>}
+    </ul>
+  );
+}
+
 export default function BatchPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { batch, parts, laser, siblings, offcuts, defaults, unit, currency, canWrite, saws, sleds } = loaderData;
+  const { batch, lines, parts, laser, changes, unit, currency } = loaderData;
   const errors: Record<string, string> = actionData?.errors ?? {};
-  const editable = canWrite && (batch.status === "open" || batch.status === "planned");
+  const editable = changes !== null;
   // Poll while a plan is queued or running; otherwise the list stays as loaded.
   const { data: live, mutate } = useSWR(`/api/batches/${batch.id}/plans`, fetchPlans, {
     fallbackData: { plans: loaderData.plans },
@@ -182,12 +198,13 @@ export default function BatchPage({ loaderData, actionData }: Route.ComponentPro
   const { data: floor } = useSWR(atSaw ? `/api/batches/${batch.id}/floor` : null, fetchFloor, { refreshInterval: 5000 });
   const done = plans.filter((p) => p.status === "done");
   const [compare, setCompare] = useState<[string, string]>(["", ""]);
+  const routerClicks = useRouterClicks();
 
   return (
     <div className="space-y-8">
       <div className="flex flex-wrap items-start justify-between gap-4">
         <PageHeader eyebrow={`Batch · ${batch.materialName}`} title={batch.code}>
-          Due by {formatDate(batch.dueBy)} · {batch.lines.length} order line{batch.lines.length === 1 ? "" : "s"}
+          Due by {formatDate(batch.dueBy)} · {lines.length} order line{lines.length === 1 ? "" : "s"}
         </PageHeader>
         <BatchBadge status={batch.status} />
       </div>
@@ -209,35 +226,36 @@ export default function BatchPage({ loaderData, actionData }: Route.ComponentPro
           <p className="text-muted">This batch has no parts.</p>
         ) : (
           <div className="overflow-x-auto rounded-lg border border-line bg-card">
-            <table className="w-full min-w-[36rem] text-left text-sm">
+            {/* Cell styles from the table down, not on every cell: a batch may merge into dozens of rows. */}
+            <table className="w-full min-w-[36rem] text-left text-sm [&_td]:px-4 [&_td]:py-3 [&_th]:px-4 [&_th]:py-3">
               <thead className="border-b border-line text-xs uppercase tracking-wider text-muted">
                 <tr>
-                  <th className="px-4 py-3">Part</th>
-                  <th className="px-4 py-3">Finished size</th>
-                  <th className="px-4 py-3">Grain</th>
-                  <th className="px-4 py-3 text-right">Qty</th>
-                  <th className="px-4 py-3">For</th>
+                  <th>Part</th>
+                  <th>Finished size</th>
+                  <th>Grain</th>
+                  <th className="text-right">Qty</th>
+                  <th>For</th>
                 </tr>
               </thead>
-              <tbody className="divide-y divide-line">
+              <tbody className="divide-y divide-line [&_td:nth-child(1)]:font-medium [&_td:nth-child(2)]:tabular-nums [&_td:nth-child(4)]:text-right [&_td:nth-child(4)]:font-semibold [&_td:nth-child(4)]:tabular-nums">
                 {parts.map((p) => (
                   <tr key={p.key} data-part={p.key}>
-                    <td className="px-4 py-3 font-medium">{p.name}</td>
-                    <td className="px-4 py-3 tabular-nums">{p.size}</td>
-                    <td className="px-4 py-3">{p.grainLocked ? "along the length" : "free"}</td>
-                    <td className="px-4 py-3 text-right font-semibold tabular-nums">{p.quantity}</td>
-                    <td className="px-4 py-3">
+                    <td>{p.name}</td>
+                    <td>{p.size}</td>
+                    <td>{p.grainLocked ? "along the length" : "free"}</td>
+                    <td>{p.quantity}</td>
+                    <td>
                       <PartOrigins batchId={batch.id} part={p} />
                     </td>
                   </tr>
                 ))}
                 {laser.blanks > 0 && (
                   <tr data-part="laser-blank">
-                    <td className="px-4 py-3 font-medium">Laser blank</td>
-                    <td className="px-4 py-3 tabular-nums">{laser.bed}</td>
-                    <td className="px-4 py-3">—</td>
-                    <td className="px-4 py-3 text-right font-semibold tabular-nums">{laser.blanks}</td>
-                    <td className="px-4 py-3 text-muted">{laser.items} laser-cut items</td>
+                    <td>Laser blank</td>
+                    <td>{laser.bed}</td>
+                    <td>—</td>
+                    <td>{laser.blanks}</td>
+                    <td className="text-muted">{laser.items} laser-cut items</td>
                   </tr>
                 )}
               </tbody>
@@ -269,58 +287,23 @@ export default function BatchPage({ loaderData, actionData }: Route.ComponentPro
 
       <section className="space-y-3">
         <h2 className="text-xl font-semibold">Order lines</h2>
-        {/* One form for every line's "Hold back" button (each names its line): a batch has a hundred lines. */}
-        {editable && (
-          <Form method="post" id={HOLD_FORM} hidden>
-            <input type="hidden" name="intent" value="hold-line" />
+        {changes ? (
+          // One form for every line: each line's checkbox names it, the controls above act on the ticked ones.
+          <Form method="post" className="space-y-3" aria-label="Change the ticked lines">
+            <LineActions siblings={changes.siblings} errors={errors} />
+            <LineList lines={lines} editable onClick={routerClicks} />
           </Form>
+        ) : (
+          <LineList lines={lines} editable={false} onClick={routerClicks} />
         )}
-        <ul className="divide-y divide-line rounded-lg border border-line bg-card">
-          {batch.lines.map((l) => (
-            <li key={l.lineId} className="flex flex-wrap items-center justify-between gap-3 px-4 py-3">
-              <span>
-                {/* One text node per phrase: a hundred lines' worth of React's separators add up. */}
-                <Link to={`/orders/${l.orderId}`} className="font-semibold text-edge hover:underline">
-                  {`#${l.orderNumber}`}
-                </Link>
-                {` ${l.customerName}: ${l.quantity} × ${l.productName} `}
-                <span className="text-sm text-muted">{`· due ${formatDate(l.dueDate)}`}</span>
-              </span>
-              {editable && (
-                <span className="flex flex-wrap items-end gap-2">
-                  {siblings.length > 0 && (
-                    <Form method="post" className="flex items-end gap-2">
-                      <input type="hidden" name="intent" value="move-line" />
-                      <input type="hidden" name="lineId" value={l.lineId} />
-                      <SelectField label={`Move #${l.orderNumber} ${l.productName} to`} name="targetBatchId" id={`move-${l.lineId}`} className="[&>label]:sr-only">
-                        {siblings.map((s) => (
-                          <option key={s.id} value={s.id}>
-                            {s.code}
-                          </option>
-                        ))}
-                      </SelectField>
-                      <button type="submit" className="min-h-11 rounded-md border border-line bg-white px-3 text-sm font-medium hover:border-edge">
-                        Move
-                      </button>
-                    </Form>
-                  )}
-                  <button type="submit" form={HOLD_FORM} name="lineId" value={l.lineId} className="min-h-11 rounded-md border border-line bg-white px-3 text-sm font-medium hover:border-edge">
-                    Hold back
-                  </button>
-                </span>
-              )}
-            </li>
-          ))}
-        </ul>
-        {editable && <p className="text-sm text-muted">Moving or holding a line discards this batch's plans: they no longer match its parts.</p>}
       </section>
 
-      {editable && (
+      {changes && (
         <section className="space-y-4 rounded-lg border border-line bg-card p-5">
           <h2 className="text-xl font-semibold">Plan the panels</h2>
           <Form method="post" className="grid gap-4 md:grid-cols-3" noValidate>
             <input type="hidden" name="intent" value="run-plan" />
-            <PlanSettingsFields defaults={defaults} errors={errors} offcuts={offcuts} unit={unit} saws={saws} sleds={sleds} />
+            <PlanSettingsFields defaults={changes.defaults} errors={errors} offcuts={changes.offcuts} unit={unit} saws={changes.saws} sleds={changes.sleds} />
             <SubmitButton className="md:col-span-3 md:w-fit" pendingText="Queueing…">
               Run a plan
             </SubmitButton>
@@ -358,6 +341,79 @@ export default function BatchPage({ loaderData, actionData }: Route.ComponentPro
         )}
       </section>
       <p className="text-sm text-muted">A plan's cost is the stock it draws: full sheets at their catalogue price, racked offcuts at the material's cheapest price per area.</p>
+    </div>
+  );
+}
+
+type Line = { lineId: string; orderId: string; orderNumber: number; customerName: string; quantity: number; productName: string; dueDate: string };
+
+/**
+ * "#1001 Ardent–Vasquez wedding: 3 × Table number · due …", with a checkbox while the batch can
+ * change. A batch has a hundred lines, so the styles sit on the list (not on every line) and each
+ * phrase is one text node (React's separators add up).
+ */
+function LineList({ lines, editable, onClick }: { lines: Line[]; editable: boolean; onClick: (event: React.MouseEvent) => void }) {
+  return (
+    <ul
+      className="divide-y divide-line rounded-lg border border-line bg-card [&_a]:font-semibold [&_a]:text-edge [&_a:hover]:underline [&_input]:h-5 [&_input]:w-5 [&_input]:shrink-0 [&_input]:accent-edge [&_label]:flex [&_label]:min-h-11 [&_label]:cursor-pointer [&_label]:items-center [&_label]:gap-3 [&_li]:px-4 [&_li]:py-3 [&_small]:text-sm [&_small]:text-muted"
+      onClick={onClick}
+    >
+      {lines.map((l) => {
+        const text = (
+          <span>
+            <a href={`/orders/${l.orderId}`}>{`#${l.orderNumber}`}</a>
+            {` ${l.customerName}: ${l.quantity} × ${l.productName} `}
+            <small>{`· due ${formatDate(l.dueDate)}`}</small>
+          </span>
+        );
+        return (
+          <li key={l.lineId}>
+            {editable ? (
+              <label>
+                <input type="checkbox" name="lineId" value={l.lineId} />
+                {text}
+              </label>
+            ) : (
+              text
+            )}
+          </li>
+        );
+      })}
+    </ul>
+  );
+}
+
+/** Move the ticked lines to another batch of this material, or hold them back. Plain form controls: works before scripts load. */
+function LineActions({ siblings, errors }: { siblings: { id: string; code: string }[]; errors: Record<string, string> }) {
+  const button = "min-h-11 rounded-md border border-line bg-white px-4 text-sm font-medium hover:border-edge";
+  return (
+    <div className="space-y-3 rounded-lg border border-line bg-card p-4">
+      <p className="text-sm text-muted">Tick the lines to change, then move them or hold them back. Either discards this batch's plans: they no longer match its parts.</p>
+      {errors.lineId && (
+        <p id="line-ids-error" className="text-sm font-medium text-bad" role="alert">
+          {errors.lineId}
+        </p>
+      )}
+      <div className="flex flex-wrap items-end gap-3">
+        {siblings.length > 0 && (
+          <>
+            <SelectField label="Move the ticked lines to" name="targetBatchId" id="move-target" defaultValue="" error={errors.targetBatchId}>
+              <option value="">Choose a batch…</option>
+              {siblings.map((s) => (
+                <option key={s.id} value={s.id}>
+                  {s.code}
+                </option>
+              ))}
+            </SelectField>
+            <button type="submit" name="intent" value="move-line" className={button}>
+              Move
+            </button>
+          </>
+        )}
+        <button type="submit" name="intent" value="hold-line" className={button}>
+          Hold back the ticked lines
+        </button>
+      </div>
     </div>
   );
 }

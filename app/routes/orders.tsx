@@ -1,3 +1,4 @@
+import { useEffect } from "react";
 import { Link, useSearchParams } from "react-router";
 import useSWR from "swr";
 import type { Route } from "./+types/orders";
@@ -31,10 +32,15 @@ const fetchJson = async (url: string): Promise<Page> => {
 
 export default function Orders({ loaderData }: Route.ComponentProps) {
   const [params] = useSearchParams();
-  const { data: page, error } = useSWR(`/api/orders?${params}`, fetchJson, { fallbackData: loaderData.page, refreshInterval: 30_000, revalidateOnMount: true });
+  // The loader has just read this very list: no second read on mount; swr refreshes it every 30 s and when the tab regains focus.
+  const { data: page, error, mutate } = useSWR(`/api/orders?${params}`, fetchJson, { fallbackData: loaderData.page, refreshInterval: 30_000, revalidateOnMount: false });
+  // Each navigation's loader data is the newest list for its address: it replaces whatever swr kept for it.
+  useEffect(() => {
+    void mutate(loaderData.page, { revalidate: false });
+  }, [loaderData.page, mutate]);
   const { currency, canWrite } = loaderData;
   const columns: Column<OrderListRow>[] = [
-    { key: "number", label: "Order", sortable: true, cell: (o) => <Link to={`/orders/${o.id}`} className="font-semibold text-edge hover:underline">#{o.number}</Link> },
+    { key: "number", label: "Order", sortable: true, cell: (o) => <a href={`/orders/${o.id}`} className="font-semibold text-edge hover:underline">{`#${o.number}`}</a> },
     { key: "customer", label: "Customer", sortable: true, cell: (o) => o.customer },
     { key: "event", label: "Event", sortable: true, cell: (o) => formatDate(o.eventDate) },
     { key: "due", label: "Due", sortable: true, cell: (o) => formatDate(o.dueDate) },

@@ -8,7 +8,7 @@ import { createShop, signIn } from "../support/factories";
 import { waitForMail } from "../support/outbox";
 import { getDb } from "~/db.server";
 import { startPlanRunner, stopPlanRunner } from "~/jobs/plan-runner.server";
-import { batchSources, createBatches, getBatch, holdLine, moveLine, proposeBatches } from "~/models/batches.server";
+import { batchSources, createBatches, getBatch, holdLines, moveLines, proposeBatches } from "~/models/batches.server";
 import { mergeBatchParts } from "~/lib/batch-parts";
 import { PlanStateError, releasePlan, requestPlan } from "~/models/plans.server";
 import { createOrder } from "~/models/orders.server";
@@ -91,10 +91,10 @@ describe("proposing and adjusting batches", () => {
     const [six] = await db.select().from(t.batches).where(and(eq(t.batches.shopId, s.shop.id), eq(t.batches.materialId, s.birch6.id)));
     const [second] = await createBatchFor(s.shop.id, s.birch6.id);
     const [line] = await db.select().from(t.orderLines).where(eq(t.orderLines.orderId, s.party.id));
-    expect(await moveLine(s.shop.id, six.id, line.id, second)).toBe(true);
+    expect(await moveLines(s.shop.id, six.id, [line.id], second)).toBe(true);
     expect((await getBatch(s.shop.id, second))!.lines.map((l) => l.lineId)).toEqual([line.id]);
 
-    expect(await holdLine(s.shop.id, second, line.id)).toBe(true);
+    expect(await holdLines(s.shop.id, second, [line.id])).toBe(true);
     expect((await getBatch(s.shop.id, second))!.lines).toEqual([]);
     expect((await proposeBatches(s.shop.id, "2027-01-15")).flatMap((p) => p.lines)).toEqual([]);
     const owner = await signIn(server, s.shop.users.owner);
@@ -123,6 +123,90 @@ async function createBatchFor(shopId: string, materialId: string) {
   const rows = await db.insert(t.batches).values({ shopId, number: n + 100 + Math.floor(Math.random() * 1000), materialId, dueBy: "2027-01-15" }).returning({ id: t.batches.id });
   return rows.map((r) => r.id);
 }
+
+describe("the batch page's one move/hold form", () => {
+  const post = (cookie: string, batchId: string, fields: [string, string][]) =>
+    request(server).post(`/batches/${batchId}`).set("Cookie", cookie).type("form").send(new URLSearchParams(fields).toString());
+
+  it("offers one checkbox per line and one form, and moves the ticked lines together, discarding both batches' plans", async () => {
+    const s = await scenario();
+    const [six] = await createBatches(s.shop.id, "2027-01-15", [s.birch6.id]);
+    const [second] = await createBatchFor(s.shop.id, s.birch6.id);
+    const planner = await signIn(server, s.shop.users.planner);
+    const page = await request(server).get(`/batches/${six}`).set("Cookie", planner);
+    const lines = (await getBatch(s.shop.id, six))!.lines;
+    expect(lines).toHaveLength(3);
+    for (const l of lines) expect(page.text).toContain(`type="checkbox" name="lineId" value="${l.lineId}"`);
+    expect(page.text.match(/name="targetBatchId"/g)).toHaveLength(1);
+    expect(page.text.match(/<form/g)!.length).toBeLessThanOrEqual(4); // the line form, the plan form, sign-out twice (rail and phone menu)
+
+    const plan = await requestPlan(s.shop.id, six, settings());
+    const wedding = lines.filter((l) => l.orderNumber === s.wedding.number).map((l) => l.lineId);
+    expect(wedding).toHaveLength(2);
+    const moved = await post(planner, six, [["intent", "move-line"], ...wedding.map((id): [string, string] => ["lineId", id]), ["targetBatchId", second]]);
+    expect(moved.status).toBe(302);
+    expect((await getBatch(s.shop.id, second))!.lines.map((l) => l.lineId).sort()).toEqual([...wedding].sort());
+    expect((await getBatch(s.shop.id, six))!.lines.map((l) => l.orderNumber)).toEqual([s.party.number]);
+    expect(await db.select().from(t.plans).where(eq(t.plans.id, plan))).toEqual([]);
+  });
+
+  it("names what is missing, and moves or holds nothing when one ticked line is not in the batch", async () => {
+    const s = await scenario();
+    const [six] = await createBatches(s.shop.id, "2027-01-15", [s.birch6.id]);
+    const [three] = await createBatches(s.shop.id, "2027-01-15", [s.birch3.id]);
+    const [second] = await createBatchFor(s.shop.id, s.birch6.id);
+    const planner = await signIn(server, s.shop.users.planner);
+    const lineOf = async (batchId: string) => (await getBatch(s.shop.id, batchId))!.lines.map((l) => l.lineId);
+    const sixLines = await lineOf(six);
+    const elsewhere = (await lineOf(three))[0];
+
+    const none = await post(planner, six, [["intent", "hold-line"]]);
+    expect(none.status).toBe(400);
+    expect(visible(none.text)).toContain("Tick one or more lines first.");
+    const noTarget = await post(planner, six, [["intent", "move-line"], ["lineId", sixLines[0]], ["targetBatchId", ""]]);
+    expect(noTarget.status).toBe(400);
+    expect(visible(noTarget.text)).toContain("Choose a batch.");
+    const itself = await post(planner, six, [["intent", "move-line"], ["lineId", sixLines[0]], ["targetBatchId", six]]);
+    expect(itself.status).toBe(400);
+    expect(visible(itself.text)).toContain("Choose another batch");
+    const garbled = await post(planner, six, [["intent", "hold-line"], ["lineId", "not-a-line"]]);
+    expect(garbled.status).toBe(400);
+    expect(visible(garbled.text)).toContain("The ticked lines could not be read.");
+
+    for (const fields of [
+      [["intent", "move-line"], ["lineId", sixLines[0]], ["lineId", elsewhere], ["targetBatchId", second]],
+      [["intent", "hold-line"], ["lineId", sixLines[0]], ["lineId", elsewhere]],
+    ] as [string, string][][]) {
+      expect((await post(planner, six, fields)).status).toBe(404);
+    }
+    expect((await lineOf(six)).sort()).toEqual([...sixLines].sort());
+    expect(await lineOf(second)).toEqual([]);
+    expect(await db.select().from(t.heldLines).where(eq(t.heldLines.shopId, s.shop.id))).toEqual([]);
+
+    const held = await post(planner, six, [["intent", "hold-line"], ...sixLines.slice(0, 2).map((id): [string, string] => ["lineId", id])]);
+    expect(held.status).toBe(302);
+    expect(await lineOf(six)).toEqual([sixLines[2]]);
+    expect((await db.select().from(t.heldLines).where(eq(t.heldLines.shopId, s.shop.id))).map((h) => h.orderLineId).sort()).toEqual(sixLines.slice(0, 2).sort());
+  });
+
+  it("a batch at the saw, or a reader without the right, gets no checkboxes, move form or plan form", async () => {
+    const s = await scenario();
+    const [six] = await createBatches(s.shop.id, "2027-01-15", [s.birch6.id]);
+    const sawyer = await signIn(server, s.shop.users.sawyer);
+    const read = await request(server).get(`/batches/${six}`).set("Cookie", sawyer);
+    expect(read.status).toBe(200);
+    expect(visible(read.text)).toContain(`#${s.party.number}`);
+    expect(read.text).not.toContain('name="lineId"');
+    await db.update(t.batches).set({ status: "released" }).where(eq(t.batches.id, six));
+    const planner = await signIn(server, s.shop.users.planner);
+    const released = await request(server).get(`/batches/${six}`).set("Cookie", planner);
+    expect(visible(released.text)).toContain(`#${s.party.number}`);
+    for (const text of ['name="lineId"', 'name="targetBatchId"', "Run a plan"]) expect(released.text).not.toContain(text);
+    const refused = await post(planner, six, [["intent", "hold-line"], ["lineId", (await getBatch(s.shop.id, six))!.lines[0].lineId]]);
+    expect(refused.status).toBe(409);
+    expect(refused.text).toContain("gone to the saw");
+  });
+});
 
 describe("the batches page at a busy shop's scale", () => {
   it("lists a proposal's first lines with its counts, yet the batch made from it takes every line", async () => {
