@@ -389,15 +389,11 @@ function LineActions({ siblings, errors }: { siblings: { id: string; code: strin
   return (
     <div className="space-y-3 rounded-lg border border-line bg-card p-4">
       <p className="text-sm text-muted">Tick the lines to change, then move them or hold them back. Either discards this batch's plans: they no longer match its parts.</p>
-      {errors.lineId && (
-        <p id="line-ids-error" className="text-sm font-medium text-bad" role="alert">
-          {errors.lineId}
-        </p>
-      )}
       <div className="flex flex-wrap items-end gap-3">
         {siblings.length > 0 && (
           <>
-            <SelectField label="Move the ticked lines to" name="targetBatchId" id="move-target" defaultValue="" error={errors.targetBatchId}>
+            {/* Its message goes under the whole row (below), so the buttons stay level with the select. */}
+            <SelectField label="Move the ticked lines to" name="targetBatchId" id="move-target" defaultValue="" aria-invalid={errors.targetBatchId ? true : undefined} aria-describedby={errors.targetBatchId ? "move-target-error" : undefined}>
               <option value="">Choose a batch…</option>
               {siblings.map((s) => (
                 <option key={s.id} value={s.id}>
@@ -414,6 +410,16 @@ function LineActions({ siblings, errors }: { siblings: { id: string; code: strin
           Hold back the ticked lines
         </button>
       </div>
+      {errors.lineId && (
+        <p className="text-sm font-medium text-bad" role="alert">
+          {errors.lineId}
+        </p>
+      )}
+      {errors.targetBatchId && (
+        <p id="move-target-error" className="text-sm font-medium text-bad" role="alert">
+          {errors.targetBatchId}
+        </p>
+      )}
     </div>
   );
 }
