@@ -176,6 +176,8 @@ export const products = pgTable(
     name: text("name").notNull(),
     priceMinor: integer("price_minor").notNull(),
     leadTimeDays: integer("lead_time_days"),
+    // A retired product is no longer offered on new lines; the orders that have it keep it.
+    retiredAt: timestamp("retired_at", { withTimezone: true, mode: "date" }),
     createdAt: createdAt(),
   },
   (t) => [index("products_shop_idx").on(t.shopId)],

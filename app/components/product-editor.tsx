@@ -15,6 +15,10 @@ export type ProductEditorProps = {
   currency: string;
   materials: { id: string; name: string }[];
   parts: PartContext;
+  /** When the product was retired (ISO), or null while it is offered. */
+  retiredAt: string | null;
+  /** Order lines and orders naming the product; null for a new one. */
+  use: { lines: number; orders: number } | null;
   canWrite: boolean;
   result: ProductResult | undefined;
 };
@@ -31,7 +35,7 @@ export function ProductEditor(props: ProductEditorProps) {
   return <Editor key={props.result?.stamp ?? "loaded"} {...props} />;
 }
 
-function Editor({ productId, values, currency, materials, parts: ctx, canWrite, result }: ProductEditorProps) {
+function Editor({ productId, values, currency, materials, parts: ctx, retiredAt, use, canWrite, result }: ProductEditorProps) {
   const [params] = useSearchParams();
   const rejected = result && !result.ok ? result : undefined;
   const shown = rejected?.values ?? values ?? { name: "", price: "", leadTime: "", parts: [] };
@@ -112,6 +116,11 @@ function Editor({ productId, values, currency, materials, parts: ctx, canWrite, 
       {!result && params.get("created") && <FormAlert tone="ok">Product created.</FormAlert>}
       {errors.form && <FormAlert>{errors.form}</FormAlert>}
       {!canWrite && <FormAlert tone="warn">Read only: only the owner changes the catalogue.</FormAlert>}
+      {retiredAt && (
+        <FormAlert tone="warn">
+          Retired on {day(retiredAt)}: new orders do not offer it. The orders that have it keep it.
+        </FormAlert>
+      )}
 
       <Form method="post" noValidate onSubmit={onSubmit} className="space-y-6">
         <section className="grid gap-4 rounded-lg border border-line bg-card p-5 md:grid-cols-[2fr_1fr_1fr]">
@@ -178,6 +187,7 @@ function Editor({ productId, values, currency, materials, parts: ctx, canWrite, 
         </section>
         {canWrite && <SubmitButton pendingText="Saving…">{productId ? "Save product" : "Create product"}</SubmitButton>}
       </Form>
+      {productId && use && <ProductLife retired={Boolean(retiredAt)} use={use} canWrite={canWrite} />}
     </div>
   );
 }
@@ -196,4 +206,44 @@ function visibleErrors(rows: PartRow[], client: RowErrors, server: RowErrors, to
     }
   }
   return out;
+}
+
+const day = (iso: string) => new Date(iso).toLocaleDateString("en-GB", { day: "numeric", month: "short", year: "numeric", timeZone: "UTC" });
+
+/** Where the product is used, and the owner's ways to retire, bring back or delete it. */
+function ProductLife({ retired, use, canWrite }: { retired: boolean; use: { lines: number; orders: number }; canWrite: boolean }) {
+  const used = use.lines > 0;
+  return (
+    <section className="space-y-3 rounded-lg border border-line bg-card p-5" aria-labelledby="life-heading" data-testid="product-life">
+      <h2 id="life-heading" className="text-lg font-semibold">
+        {retired ? "Retired" : "Offered on new orders"}
+      </h2>
+      <p className="text-sm text-muted">
+        {used ? `On ${use.lines} order line${use.lines === 1 ? "" : "s"} in ${use.orders} order${use.orders === 1 ? "" : "s"}.` : "Not on any order yet."}
+        {!retired && canWrite && " Retiring takes it off the product list of new orders; the orders that have it keep it, and it can be offered again."}
+      </p>
+      {canWrite && (
+        <div className="flex flex-wrap items-start gap-3">
+          <Form method="post">
+            <input type="hidden" name="intent" value={retired ? "restore" : "retire"} />
+            <button type="submit" className="min-h-11 rounded-md border border-edge bg-white px-4 font-semibold text-edge hover:bg-edge-soft">
+              {retired ? "Offer it again" : "Retire product"}
+            </button>
+          </Form>
+          {!used && (
+            <details className="text-sm">
+              <summary className="flex min-h-11 cursor-pointer items-center font-medium text-bad">Delete for good…</summary>
+              <Form method="post" className="mt-2 flex flex-wrap items-center gap-3">
+                <input type="hidden" name="intent" value="delete-product" />
+                <p>It is on no order, so it can go entirely, parts and all. This cannot be undone.</p>
+                <button type="submit" className="min-h-11 rounded-md border border-bad/40 bg-white px-4 font-semibold text-bad hover:bg-bad-soft">
+                  Delete product
+                </button>
+              </Form>
+            </details>
+          )}
+        </div>
+      )}
+    </section>
+  );
 }

@@ -68,7 +68,7 @@ export function checkLines(raw: Map<number, RawLine>, productIds: Set<string>): 
 
   for (const [i, l] of [...raw].sort(([a], [b]) => a - b)) {
     if (!l.productId) errors[field(i, "product")] = "Choose a product.";
-    else if (!productIds.has(l.productId)) errors[field(i, "product")] = "That product is not in this shop's catalogue.";
+    else if (!productIds.has(l.productId)) errors[field(i, "product")] = "That product is not offered in this shop's catalogue (it may have been retired).";
 
     let texts = parseTypedTexts(l.texts);
     if (l.csv) {

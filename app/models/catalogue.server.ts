@@ -1,7 +1,7 @@
 // Materials, their stock panels, and products with their bills of parts. Every query names the shop:
 // product_parts have no shop column, so they are only reached through a product of this shop.
-import { and, asc, count, desc, eq, exists, ilike, inArray, ne, sql, type SQL } from "drizzle-orm";
-import { materials, offcuts, productParts, products, stockPanels } from "../../db/schema";
+import { and, asc, count, desc, eq, exists, ilike, inArray, isNotNull, isNull, ne, sql, type SQL } from "drizzle-orm";
+import { materials, offcuts, orderLines, orders, productParts, products, stockPanels } from "../../db/schema";
 import { getDb } from "~/db.server";
 import type { MaterialKind, PartInput } from "~/lib/catalogue";
 import { likePattern, type ListQuery } from "~/lib/listing";
@@ -121,6 +121,8 @@ const materialNames = sql<string | null>`(
 export async function listProducts(shopId: string, query: ListQuery<ProductSort>) {
   const db = getDb();
   const where: SQL[] = [eq(products.shopId, shopId)];
+  // Current products unless the list asks for the retired ones (or all).
+  if (query.filters.show !== "all") where.push(query.filters.show === "retired" ? isNotNull(products.retiredAt) : isNull(products.retiredAt));
   if (query.q) where.push(ilike(products.name, likePattern(query.q)));
   if (query.filters.material) {
     where.push(
@@ -136,7 +138,7 @@ export async function listProducts(shopId: string, query: ListQuery<ProductSort>
   const direction = query.dir === "asc" ? asc : desc;
   const [rows, [total]] = await Promise.all([
     db
-      .select({ id: products.id, name: products.name, priceMinor: products.priceMinor, leadTimeDays: products.leadTimeDays, parts: partCount, materials: materialNames })
+      .select({ id: products.id, name: products.name, priceMinor: products.priceMinor, leadTimeDays: products.leadTimeDays, retiredAt: products.retiredAt, parts: partCount, materials: materialNames })
       .from(products)
       .where(and(...where))
       .orderBy(query.sort === "leadTime" ? sql`${order} ${sql.raw(query.dir)} nulls last` : direction(order), asc(products.name), asc(products.id))
@@ -154,6 +156,45 @@ export async function getProduct(shopId: string, productId: string) {
   if (!product) return null;
   const parts = await db.select().from(productParts).where(eq(productParts.productId, product.id)).orderBy(asc(productParts.name), desc(productParts.lengthUm), desc(productParts.widthUm));
   return { ...product, parts };
+}
+
+/** How many order lines, on how many orders, name this product (a product that was ordered is never deleted). */
+export async function productUse(shopId: string, productId: string) {
+  const [row] = await getDb()
+    .select({ lines: count(), orders: sql<number>`count(distinct ${orderLines.orderId})::int` })
+    .from(orderLines)
+    .innerJoin(orders, eq(orders.id, orderLines.orderId))
+    .where(and(eq(orders.shopId, shopId), eq(orderLines.productId, productId)));
+  return { lines: row.lines, orders: row.orders };
+}
+
+/** Retires a product (true) or brings it back (false). Returns false when it is not this shop's. */
+export async function setProductRetired(shopId: string, productId: string, retired: boolean): Promise<boolean> {
+  const rows = await getDb()
+    .update(products)
+    // A second retire keeps the first date.
+    .set({ retiredAt: retired ? sql`coalesce(${products.retiredAt}, now())` : null })
+    .where(and(eq(products.id, productId), eq(products.shopId, shopId)))
+    .returning({ id: products.id });
+  return rows.length > 0;
+}
+
+export class ProductInUseError extends Error {}
+
+/**
+ * Deletes a product and its parts for good. Refused once any order line names it: those orders keep
+ * their product, so it can only be retired. The product row is locked so an order taken at the same
+ * moment either sees it whole or not at all. Returns false when it is not this shop's.
+ */
+export async function deleteProduct(shopId: string, productId: string): Promise<boolean> {
+  return getDb().transaction(async (tx) => {
+    const [product] = await tx.select({ id: products.id }).from(products).where(and(eq(products.id, productId), eq(products.shopId, shopId))).for("update");
+    if (!product) return false;
+    const [used] = await tx.select({ n: count() }).from(orderLines).where(eq(orderLines.productId, productId));
+    if (used.n > 0) throw new ProductInUseError(`It is on ${used.n} order line${used.n === 1 ? "" : "s"}, so it stays for those orders: retire it instead.`);
+    await tx.delete(products).where(eq(products.id, productId));
+    return true;
+  });
 }
 
 export type ProductInput = { name: string; priceMinor: number; leadTimeDays: number | null };

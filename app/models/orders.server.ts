@@ -1,4 +1,4 @@
-import { and, asc, count, desc, eq, ilike, inArray, or, sql } from "drizzle-orm";
+import { and, asc, count, desc, eq, ilike, inArray, isNull, or, sql } from "drizzle-orm";
 import { batches, batchLines, customers, lineFiles, orderLines, orders, products, shops } from "../../db/schema";
 import { getDb } from "~/db.server";
 import { batchCode } from "~/lib/batches";
@@ -125,12 +125,12 @@ export async function getOrder(shopId: string, orderId: string) {
 
 export type OrderDetail = NonNullable<Awaited<ReturnType<typeof getOrder>>>;
 
-/** The shop's products that an order line may name, with the price a new line takes. */
+/** The shop's current (not retired) products that a new order line may name, with the price it takes. */
 export async function productChoices(shopId: string) {
   return getDb()
     .select({ id: products.id, name: products.name, priceMinor: products.priceMinor, leadTimeDays: products.leadTimeDays })
     .from(products)
-    .where(eq(products.shopId, shopId))
+    .where(and(eq(products.shopId, shopId), isNull(products.retiredAt)))
     .orderBy(asc(products.name));
 }
 
@@ -158,11 +158,16 @@ type Tx = Parameters<Parameters<ReturnType<typeof getDb>["transaction"]>[0]>[0];
 async function insertLines(tx: Tx, shopId: string, orderId: string, lines: NewLine[]) {
   if (lines.length === 0) return;
   const ids = [...new Set(lines.map((l) => l.productId))];
-  const prices = await tx.select({ id: products.id, priceMinor: products.priceMinor }).from(products).where(and(eq(products.shopId, shopId), inArray(products.id, ids)));
+  // Locked against a delete at the same moment; a product retired since the form was checked is refused.
+  const prices = await tx
+    .select({ id: products.id, priceMinor: products.priceMinor })
+    .from(products)
+    .where(and(eq(products.shopId, shopId), inArray(products.id, ids), isNull(products.retiredAt)))
+    .for("share");
   const priceOf = new Map(prices.map((p) => [p.id, p.priceMinor]));
   for (const line of lines) {
     const price = priceOf.get(line.productId);
-    if (price === undefined) throw new OrderStateError("A product on this order is not in this shop's catalogue.");
+    if (price === undefined) throw new OrderStateError("A product on this order is not (or no longer) offered in this shop's catalogue.");
     const [row] = await tx
       .insert(orderLines)
       .values({ orderId, productId: line.productId, quantity: line.quantity, unitPriceMinor: price, personalisation: line.personalisation, notes: line.notes })

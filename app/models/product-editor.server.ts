@@ -6,7 +6,7 @@ import { parsePartsJson, productSchema, validatePartRows, type PartContext, type
 import { parseForm } from "~/lib/forms";
 import { lengthInputValue } from "~/lib/length-fields";
 import { moneyInputValue } from "~/lib/money";
-import { getProduct, MaterialGoneError, materialOptions, productNameTaken, saveProduct } from "./catalogue.server";
+import { deleteProduct, getProduct, MaterialGoneError, materialOptions, ProductInUseError, productNameTaken, productUse, saveProduct, setProductRetired } from "./catalogue.server";
 import { getShop } from "./shops.server";
 
 type Args = { request: Request; context: Readonly<RouterContextProvider>; params: { productId?: string } };
@@ -36,7 +36,7 @@ function partContext(ctx: Awaited<ReturnType<typeof editorContext>>, product: Aw
 export async function productEditorLoader(args: Args) {
   const user = requirePermission(args, args.params.productId === undefined ? "catalogue:write" : "catalogue:read");
   const product = await findProduct(user.shopId, args.params.productId);
-  const ctx = await editorContext(user.shopId);
+  const [ctx, use] = await Promise.all([editorContext(user.shopId), product ? productUse(user.shopId, product.id) : null]);
   const unit = ctx.shop.displayUnit;
   const values: ProductValues | null = product && {
     name: product.name,
@@ -60,15 +60,41 @@ export async function productEditorLoader(args: Args) {
     currency: ctx.shop.currency,
     materials: ctx.materials,
     parts: partContext(ctx, product),
+    retiredAt: product?.retiredAt?.toISOString() ?? null,
+    use,
     canWrite: hasPermission(user.role, "catalogue:write"),
   };
 }
 
+/** Retire, bring back or delete: the product's life, apart from its contents. */
+async function lifeAction(shopId: string, product: NonNullable<Awaited<ReturnType<typeof findProduct>>>, intent: "retire" | "restore" | "delete-product") {
+  const stamp = crypto.randomUUID();
+  if (intent === "delete-product") {
+    try {
+      if (!(await deleteProduct(shopId, product.id))) throw data("No such product in this shop.", { status: 404 });
+    } catch (error) {
+      if (!(error instanceof ProductInUseError)) throw error;
+      return data<ProductResult>({ ok: false, notice: null, errors: { form: `${product.name} was not deleted. ${error.message}` }, rowErrors: {}, values: null, stamp }, { status: 409 });
+    }
+    return redirect(`/catalogue?deleted=${encodeURIComponent(product.name)}`);
+  }
+  if (!(await setProductRetired(shopId, product.id, intent === "retire"))) throw data("No such product in this shop.", { status: 404 });
+  const notice = intent === "retire" ? `${product.name} is retired: new orders no longer offer it.` : `${product.name} is offered on new orders again.`;
+  return { ok: true, notice, errors: {}, rowErrors: {}, values: null, stamp } satisfies ProductResult;
+}
+
+const LIFE_INTENTS = ["retire", "restore", "delete-product"] as const;
+
 export async function productEditorAction(args: Args) {
   const user = requirePermission(args, "catalogue:write");
   const product = await findProduct(user.shopId, args.params.productId);
-  const ctx = await editorContext(user.shopId);
   const form = await args.request.formData();
+  const intent = LIFE_INTENTS.find((i) => i === form.get("intent"));
+  if (intent) {
+    if (!product) return data<ProductResult>({ ok: false, notice: null, errors: { form: "There is no product to retire or delete yet: save it first." }, rowErrors: {}, values: null, stamp: crypto.randomUUID() }, { status: 400 });
+    return lifeAction(user.shopId, product, intent);
+  }
+  const ctx = await editorContext(user.shopId);
   const rawParts = parsePartsJson(form.get("parts"));
   const values: ProductValues = {
     name: String(form.get("name") ?? ""),

@@ -1,6 +1,7 @@
-import { Link } from "react-router";
+import { Link, useSearchParams } from "react-router";
 import type { Route } from "./+types/catalogue";
 import { hasPermission, requirePermission } from "~/auth.server";
+import { FormAlert } from "~/components/forms";
 import { ListSearch, ListTable, type Column } from "~/components/list-table";
 import { PageHeader } from "~/components/page-header";
 import { parseListQuery } from "~/lib/listing";
@@ -14,7 +15,7 @@ export async function loader(args: Route.LoaderArgs) {
   const query = parseListQuery(new URL(args.request.url).searchParams, {
     sorts: PRODUCT_SORTS,
     defaultSort: "name",
-    filters: { material: materials.map((m) => m.id) },
+    filters: { material: materials.map((m) => m.id), show: ["retired", "all"] },
   });
   const { rows, total } = await listProducts(user.shopId, query);
   return { rows, total, query, materials, currency: shop.currency, canWrite: hasPermission(user.role, "catalogue:write") };
@@ -24,15 +25,20 @@ type Row = Awaited<ReturnType<typeof loader>>["rows"][number];
 
 export default function Catalogue({ loaderData }: Route.ComponentProps) {
   const { rows, total, query, materials, currency, canWrite } = loaderData;
+  const [params] = useSearchParams();
+  const deleted = params.get("deleted");
   const columns: Column<Row>[] = [
     {
       key: "name",
       label: "Product",
       sortable: true,
       cell: (r) => (
-        <Link to={`/catalogue/products/${r.id}`} className="font-medium text-ink underline-offset-2 hover:text-edge hover:underline">
-          {r.name}
-        </Link>
+        <span className="flex flex-wrap items-center gap-2">
+          <Link to={`/catalogue/products/${r.id}`} className="font-medium text-ink underline-offset-2 hover:text-edge hover:underline">
+            {r.name}
+          </Link>
+          {r.retiredAt && <span className="rounded-full bg-line/60 px-2 py-0.5 text-xs font-semibold">Retired</span>}
+        </span>
       ),
     },
     { key: "materials", label: "Materials", cell: (r) => r.materials ?? <span className="text-muted">none</span> },
@@ -45,6 +51,7 @@ export default function Catalogue({ loaderData }: Route.ComponentProps) {
       <PageHeader eyebrow="Owner" title="Catalogue">
         What the shop sells, each product a bill of parts cut from the shop's materials.
       </PageHeader>
+      {deleted && <FormAlert tone="ok">{deleted.slice(0, 200)} was deleted.</FormAlert>}
       <div className="flex flex-wrap gap-3">
         {canWrite && (
           <Link to="/catalogue/products/new" className="inline-flex min-h-11 items-center rounded-md bg-edge px-5 font-semibold text-white hover:bg-edge-dark">
@@ -67,6 +74,14 @@ export default function Catalogue({ loaderData }: Route.ComponentProps) {
             ))}
           </select>
         </label>
+        <label className="space-y-1 text-sm font-medium">
+          <span>Show</span>
+          <select name="show" defaultValue={query.filters.show ?? ""} className="block min-h-11 w-full rounded-md border border-line bg-white px-3 py-2.5 text-base">
+            <option value="">Offered products</option>
+            <option value="retired">Retired products</option>
+            <option value="all">All products</option>
+          </select>
+        </label>
       </ListSearch>
       <ListTable
         rows={rows}
@@ -76,7 +91,7 @@ export default function Catalogue({ loaderData }: Route.ComponentProps) {
         size={query.size}
         sort={query.sort}
         dir={query.dir}
-        empty={query.q || query.filters.material ? "No product matches." : "No products yet."}
+        empty={query.q || query.filters.material || query.filters.show ? "No product matches." : "No products yet."}
       />
     </div>
   );

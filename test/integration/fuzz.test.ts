@@ -72,11 +72,13 @@ beforeAll(async () => {
   for (let i = 0; i < 200 && (await getDb().select({ status: t.plans.status }).from(t.plans).where(eq(t.plans.id, planId)))[0].status !== "done"; i++) await new Promise((r) => setTimeout(r, 100));
   await releasePlan(s.shop.id, releasedId, planId);
   const [customer] = await getDb().select({ id: t.customers.id }).from(t.customers).where(eq(t.customers.shopId, s.shop.id)).limit(1);
-  ids = { order: s.wedding.id, batch: batchId, released: releasedId, customer: customer.id };
+  // A product on the scenario's orders: retiring toggles, deleting is always refused.
+  const [product] = await getDb().select({ id: t.orderLines.productId }).from(t.orderLines).where(eq(t.orderLines.orderId, s.wedding.id)).limit(1);
+  ids = { order: s.wedding.id, batch: batchId, released: releasedId, customer: customer.id, product: product.id };
 });
 afterAll(() => stopPlanRunner());
 
-const INTENTS = ["invite", "role", "remove", "revoke", "move", "resend", "add-lines", "remove-line", "line-texts", "header", "create", "unhold", "move-line", "hold-line", "run-plan", "cancel-plan", "release", "spoil", "close", "add", "discard", "material", "panel", "delete", "request-deposit", "refund-deposit", ""];
+const INTENTS = ["invite", "role", "remove", "revoke", "move", "resend", "add-lines", "remove-line", "line-texts", "header", "create", "unhold", "move-line", "hold-line", "run-plan", "cancel-plan", "release", "spoil", "close", "add", "discard", "material", "panel", "delete", "request-deposit", "refund-deposit", "retire", "restore", "delete-product", ""];
 const FIELDS = ["intent", "email", "role", "memberId", "invitationId", "to", "lineId", "customerId", "eventDate", "dueDate", "notes", "name", "phone", "kerfMm", "trimMm", "seconds", "stages", "objective", "planId", "targetBatchId", "dueBy", "materialId", "length", "width", "location", "grain", "offcutId", "part", "quantity", "reason", "line-0-product", "line-0-quantity", "line-0-texts", "line-0-csvHeader", "line-0-followRows", "setupIndex", "countCut", "parts", "price", "leadTimeDays", "unit", "currency", "deposit", "depositRule", "depositPercent", "depositFixedMinor"];
 
 const nasty = fc.oneof(
@@ -104,6 +106,7 @@ const routes = () => [
   "/settings",
   "/catalogue/materials",
   "/catalogue/products/new",
+  `/catalogue/products/${ids.product}`,
   "/sign-up",
   "/forgot-password",
   "/webhooks/payments",
