@@ -2,7 +2,7 @@ import { and, asc, desc, eq, inArray, isNull, lte, notExists, sql } from "drizzl
 import { batches, batchLines, customers, heldLines, kerfMeasurements, materials, offcuts, orderLines, orders, plans, productParts, products, recutParts, saws, shops, sleds } from "../../db/schema";
 import { getDb } from "~/db.server";
 import type { BatchSource } from "~/lib/batch-parts";
-import { batchCode } from "~/lib/batches";
+import { batchCode, PROPOSAL_PREVIEW_LINES } from "~/lib/batches";
 import { preparedOnce } from "./prepared.server";
 
 export class BatchStateError extends Error {}
@@ -75,6 +75,64 @@ function groupByMaterial(rows: Awaited<ReturnType<typeof unbatchedLines>>, recut
   for (const row of rows) group(row.materialId, row.materialName).lines.push(row);
   for (const recut of recuts) group(recut.materialId, recut.materialName).recuts.push(recut);
   return [...byMaterial.values()];
+}
+
+type Line = ProposedBatch["lines"][number];
+type Recut = ProposedBatch["recuts"][number];
+export type ProposalPreview = { materialId: string; materialName: string; lines: Line[]; recuts: Recut[]; lineCount: number; itemCount: number; recutCount: number; notListed: number };
+
+/**
+ * What the batches page shows of the proposals: per material the counts of every unbatched line due
+ * by `dueBy` and only its first `limit` lines (the same order and rows as proposeBatches, then
+ * proposalPreview). Counted and cut down in PostgreSQL, so a busy season's thousands of lines are not
+ * sent to the app only to be dropped; creating batches still takes every line (proposeBatches).
+ */
+export async function proposalPreviews(shopId: string, dueBy: string, limit = PROPOSAL_PREVIEW_LINES): Promise<ProposalPreview[]> {
+  const db = getDb();
+  const [rows, recuts] = await Promise.all([
+    db.execute<Record<string, unknown>>(sql`
+      with line_materials as (
+        select ol.id as line_id, pm.material_id, o.id as order_id, o.number as order_number, o.customer_id,
+               ol.product_id, ol.quantity, o.due_date
+        from ${orderLines} ol
+        join ${orders} o on o.id = ol.order_id
+        join (select distinct product_id, material_id from ${productParts}) pm on pm.product_id = ol.product_id
+        where o.shop_id = ${shopId} and o.status in ('confirmed', 'in_production') and o.due_date <= ${dueBy}
+          and not exists (select 1 from ${batchLines} bl where bl.order_line_id = ol.id and bl.material_id = pm.material_id)
+          and not exists (select 1 from ${heldLines} hl where hl.order_line_id = ol.id and hl.material_id = pm.material_id)
+      ), ranked as (
+        select lm.*, p.name as product_name,
+               row_number() over (partition by lm.material_id order by lm.due_date, lm.order_number, p.name, lm.line_id) as rank,
+               count(*) over (partition by lm.material_id) as line_count,
+               sum(lm.quantity) over (partition by lm.material_id) as item_count
+        from line_materials lm join ${products} p on p.id = lm.product_id
+      )
+      select r.line_id, r.material_id, m.name as material_name, r.order_id, r.order_number, c.name as customer_name,
+             r.product_name, r.quantity, r.due_date, r.line_count, r.item_count
+      from ranked r join ${materials} m on m.id = r.material_id join ${customers} c on c.id = r.customer_id
+      where r.rank <= ${limit}
+      order by m.name, r.rank`),
+    openRecuts(db, shopId),
+  ]);
+  const previews = new Map<string, ProposalPreview>();
+  const previewOf = (materialId: string, materialName: string) => {
+    let p = previews.get(materialId);
+    if (!p) previews.set(materialId, (p = { materialId, materialName, lines: [], recuts: [], lineCount: 0, itemCount: 0, recutCount: 0, notListed: 0 }));
+    return p;
+  };
+  for (const r of rows) {
+    const p = previewOf(String(r.material_id), String(r.material_name));
+    p.lineCount = Number(r.line_count);
+    p.itemCount = Number(r.item_count);
+    p.lines.push({ lineId: String(r.line_id), materialId: p.materialId, materialName: p.materialName, orderId: String(r.order_id), orderNumber: Number(r.order_number), customerName: String(r.customer_name), productName: String(r.product_name), quantity: Number(r.quantity), dueDate: String(r.due_date) });
+  }
+  for (const recut of recuts) {
+    const p = previewOf(recut.materialId, recut.materialName);
+    p.recutCount++;
+    if (p.lines.length + p.recuts.length < limit) p.recuts.push(recut);
+  }
+  for (const p of previews.values()) p.notListed = p.lineCount + p.recutCount - p.lines.length - p.recuts.length;
+  return [...previews.values()];
 }
 
 /** Creates the proposed batches afresh inside one transaction; lines another planner batched meanwhile are skipped. */

@@ -7,9 +7,10 @@ import { Field, FormAlert, SubmitButton } from "~/components/forms";
 import { PageHeader } from "~/components/page-header";
 import { addDays, formatDate, isIsoDate, todayIso } from "~/lib/dates";
 import { parseForm } from "~/lib/forms";
-import { batchCode, batchesToList, proposalPreview } from "~/lib/batches";
+import { batchCode, batchesToList } from "~/lib/batches";
 import { can } from "~/lib/permissions";
-import { createBatches, listBatches, listHeldLines, proposeBatches, releaseHold } from "~/models/batches.server";
+import { createBatches, listBatches, listHeldLines, proposalPreviews, releaseHold } from "~/models/batches.server";
+import { timed } from "~/timing.server";
 
 export async function loader(args: Route.LoaderArgs) {
   const user = requirePermission(args, "batches:read");
@@ -17,13 +18,11 @@ export async function loader(args: Route.LoaderArgs) {
   const dueByParam = url.searchParams.get("dueBy") ?? "";
   const dueBy = isIsoDate(dueByParam) ? dueByParam : addDays(todayIso(), 21);
   const canWrite = can(user.role, "batches:write");
-  const [all, proposals, held] = await Promise.all([
-    listBatches(user.shopId),
-    canWrite ? proposeBatches(user.shopId, dueBy) : [],
-    canWrite ? listHeldLines(user.shopId) : [],
-  ]);
+  const [all, proposals, held] = await timed("queries", () =>
+    Promise.all([listBatches(user.shopId), canWrite ? proposalPreviews(user.shopId, dueBy) : [], canWrite ? listHeldLines(user.shopId) : []]),
+  );
   const { shown, olderFinished } = url.searchParams.get("finished") === "all" ? { shown: all, olderFinished: 0 } : batchesToList(all);
-  return { batches: shown, olderFinished, proposals: proposals.map((p) => proposalPreview(p)), held, dueBy, canWrite };
+  return { batches: shown, olderFinished, proposals, held, dueBy, canWrite };
 }
 
 const ActionSchema = v.variant("intent", [

@@ -6,11 +6,12 @@ import { PageHeader } from "~/components/page-header";
 import { parseListQuery } from "~/lib/listing";
 import { can } from "~/lib/permissions";
 import { CUSTOMER_SORTS, listCustomers } from "~/models/customers.server";
+import { timed } from "~/timing.server";
 
 export async function loader(args: Route.LoaderArgs) {
   const user = requirePermission(args, "customers:read");
   const query = parseListQuery(new URL(args.request.url).searchParams, { sorts: CUSTOMER_SORTS, defaultSort: "name" });
-  const { rows, total } = await listCustomers(user.shopId, query);
+  const { rows, total } = await timed("queries", () => listCustomers(user.shopId, query));
   return { rows, total, query, canWrite: can(user.role, "customers:write") };
 }
 

@@ -11,10 +11,11 @@ import { yieldOf, type Figures } from "~/lib/ledger-report";
 import { formatMoney } from "~/lib/money";
 import { ledgerReport } from "~/models/ledger-report.server";
 import { getShop } from "~/models/shops.server";
+import { timed } from "~/timing.server";
 
 export async function loader(args: Route.LoaderArgs) {
   const user = requirePermission(args, "ledger:read");
-  const [report, shop] = await Promise.all([ledgerReport(user.shopId, new URL(args.request.url).searchParams), getShop(user.shopId)]);
+  const [report, shop] = await timed("queries", () => Promise.all([ledgerReport(user.shopId, new URL(args.request.url).searchParams), getShop(user.shopId)]));
   return { report, currency: shop.currency, unit: shop.displayUnit };
 }
 

@@ -25,24 +25,27 @@ import { addLines, getOrder, moveOrder, OrderStateError, productChoices, removeL
 import { orderMaterialCost } from "~/models/ledger.server";
 import { getShop } from "~/models/shops.server";
 import { deleteStoredFiles } from "~/storage.server";
+import { timed } from "~/timing.server";
 
 const Uuid = v.pipe(v.string(), v.uuid());
 
 export async function loader(args: Route.LoaderArgs) {
   const user = requirePermission(args, "orders:read");
-  const order = v.is(Uuid, args.params.orderId) ? await getOrder(user.shopId, args.params.orderId) : null;
+  const order = v.is(Uuid, args.params.orderId) ? await timed("order", () => getOrder(user.shopId, args.params.orderId)) : null;
   if (!order) throw data("No such order in this shop.", { status: 404 });
   const canWrite = can(user.role, "orders:write");
   const seesDeposits = can(user.role, "deposits:read");
-  const [shop, products, customers, materialCost, deposit, moves, proposed] = await Promise.all([
-    getShop(user.shopId),
-    canWrite ? productChoices(user.shopId) : [],
-    canWrite ? customerChoices(user.shopId) : [],
-    can(user.role, "ledger:read") ? orderMaterialCost(user.shopId, order.id) : null,
-    seesDeposits ? orderDeposit(user.shopId, order.id) : null,
-    seesDeposits ? orderMoves(user.shopId, order.id) : [],
-    canWrite && paymentsConfigured() ? proposedDeposit(user.shopId, order.id) : null,
-  ]);
+  const [shop, products, customers, materialCost, deposit, moves, proposed] = await timed("queries", () =>
+    Promise.all([
+      getShop(user.shopId),
+      canWrite ? productChoices(user.shopId) : [],
+      canWrite ? customerChoices(user.shopId) : [],
+      can(user.role, "ledger:read") ? orderMaterialCost(user.shopId, order.id) : null,
+      seesDeposits ? orderDeposit(user.shopId, order.id) : null,
+      seesDeposits ? orderMoves(user.shopId, order.id) : [],
+      canWrite && paymentsConfigured() ? proposedDeposit(user.shopId, order.id) : null,
+    ]),
+  );
   const depositView = seesDeposits
     ? {
         deposit: deposit && {
@@ -58,7 +61,8 @@ export async function loader(args: Route.LoaderArgs) {
         canRefund: hasPermission(user.role, "deposits:refund"),
       }
     : null;
-  return { order, currency: shop.currency, canWrite, products, customers, materialCost, deposits: depositView };
+  // The customer list feeds one <select>: names only (a large shop has hundreds).
+  return { order, currency: shop.currency, canWrite, products, customers: customers.map(({ id, name }) => ({ id, name })), materialCost, deposits: depositView };
 }
 
 const ActionSchema = v.variant("intent", [

@@ -6,10 +6,11 @@ import { PageHeader } from "~/components/page-header";
 import { batchCode } from "~/lib/batches";
 import { formatDate } from "~/lib/dates";
 import { floorBatches } from "~/models/floor.server";
+import { timed } from "~/timing.server";
 
 export async function loader(args: Route.LoaderArgs) {
   const user = requirePermission(args, "floor:read");
-  return { batches: await floorBatches(user.shopId) };
+  return { batches: await timed("queries", () => floorBatches(user.shopId)) };
 }
 
 export default function Saw({ loaderData }: Route.ComponentProps) {

@@ -8,8 +8,9 @@ import { createShop, signIn } from "../support/factories";
 import { waitForMail } from "../support/outbox";
 import { getDb } from "~/db.server";
 import { startPlanRunner, stopPlanRunner } from "~/jobs/plan-runner.server";
-import { batchSources, createBatches, getBatch, holdLines, moveLines, proposeBatches } from "~/models/batches.server";
+import { batchSources, createBatches, getBatch, holdLines, moveLines, proposalPreviews, proposeBatches } from "~/models/batches.server";
 import { mergeBatchParts } from "~/lib/batch-parts";
+import { proposalPreview } from "~/lib/batches";
 import { PlanStateError, releasePlan, requestPlan } from "~/models/plans.server";
 import { createOrder } from "~/models/orders.server";
 
@@ -47,6 +48,18 @@ describe("proposing and adjusting batches", () => {
     const six = proposals.find((p) => p.materialId === s.birch6.id)!;
     expect(six.lines.map((l) => `${l.orderNumber}:${l.productName}`).sort()).toEqual([`${s.party.number}:Table number`, `${s.wedding.number}:Table number`, `${s.wedding.number}:Welcome sign`].sort());
     expect(six.lines.some((l) => l.orderNumber === s.draft.number || l.orderNumber === s.later.number)).toBe(false);
+  });
+
+  it("the batches page's preview, counted and cut down in PostgreSQL, equals proposalPreview of every proposed line", async () => {
+    for (const limit of [1, 2, 12]) {
+      const expected = (await proposeBatches(s.shop.id, "2027-01-15")).map((p) => proposalPreview(p, limit));
+      expect(await proposalPreviews(s.shop.id, "2027-01-15", limit)).toEqual(expected);
+    }
+    const cut = await proposalPreviews(s.shop.id, "2027-01-15", 2);
+    const six = cut.find((p) => p.materialId === s.birch6.id)!;
+    expect([six.lines.length, six.lineCount, six.notListed]).toEqual([2, 3, 1]);
+    const every = (await proposeBatches(s.shop.id, "2027-01-15")).find((p) => p.materialId === s.birch6.id)!;
+    expect(six.itemCount).toBe(every.lines.reduce((n, l) => n + l.quantity, 0)); // counts every line, not only those shown
   });
 
   it("creates the batches; then nothing is left to propose, and the parts merge keeping every origin", async () => {
