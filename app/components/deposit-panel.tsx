@@ -1,6 +1,6 @@
 import { Form } from "react-router";
 import { SubmitButton } from "./forms";
-import { DEPOSIT_STATUS_LABELS, type DepositStatus } from "~/lib/deposits";
+import { DEPOSIT_STATUS_LABELS, unchargeableDeposit, type DepositStatus } from "~/lib/deposits";
 import { formatMoney } from "~/lib/money";
 
 export type DepositView = {
@@ -27,8 +27,10 @@ export function DepositPanel({ view, order, currency, canWrite }: { view: Deposi
   const { deposit } = view;
   const money = (minor: number) => formatMoney(minor, currency);
   const open = order.status !== "draft" && order.status !== "cancelled" && order.status !== "delivered";
-  const canAsk = canWrite && open && view.proposedMinor !== null && (!deposit || deposit.status === "refunded");
-  if (!deposit && !canAsk) return null;
+  const askable = canWrite && open && view.proposedMinor !== null && (!deposit || deposit.status === "refunded");
+  const unchargeable = askable ? unchargeableDeposit(view.proposedMinor!, currency) : null;
+  const canAsk = askable && !unchargeable;
+  if (!deposit && !askable) return null;
   return (
     <section className="space-y-3 rounded-lg border border-line bg-card p-4" data-testid="deposit">
       <div className="flex flex-wrap items-center justify-between gap-3">
@@ -52,6 +54,7 @@ export function DepositPanel({ view, order, currency, canWrite }: { view: Deposi
           Payment link sent to the customer: <a href={deposit.link} className="text-edge underline">{deposit.link}</a>
         </p>
       )}
+      {unchargeable && <p className="text-sm text-muted">{unchargeable} Take this one another way.</p>}
       {canAsk && (
         <Form method="post" encType="multipart/form-data" className="flex flex-wrap items-center gap-3">
           <input type="hidden" name="intent" value="request-deposit" />

@@ -1,7 +1,7 @@
 // Deposits on orders: the shop's rule, the amount it asks, and what an order still owes. Money is
 // integer minor units throughout; nothing here rounds through floating point.
 import * as v from "valibot";
-import { formatMoney, moneyInputValue, parseMoney } from "./money";
+import { formatMoney, isCurrency, moneyInputValue, parseMoney, type Currency } from "./money";
 
 export const DEPOSIT_RULES = ["none", "percent", "fixed"] as const;
 export type DepositRuleKind = (typeof DEPOSIT_RULES)[number];
@@ -56,6 +56,37 @@ export function balanceOf(totalMinor: number, moves: DepositMove[]): { paidMinor
 export const DEPOSIT_PERCENT_LIMITS = { min: 1, max: 100 };
 
 /**
+ * The smallest single payment the payment service takes, per currency, in minor units. Source: the
+ * service's "Minimum and maximum charge amounts" table (docs.stripe.com/currencies); USD 0.50 is also
+ * stated in its SDKs' API docs and GBP 0.30 in payment help pages that cite the table; the other
+ * values are from memory of that table. A currency missing here is checked by the service alone.
+ */
+export const PAYMENT_MINIMUM_MINOR: Record<Currency, number> = {
+  USD: 50,
+  EUR: 50,
+  GBP: 30,
+  CAD: 50,
+  AUD: 50,
+  NZD: 50,
+  CHF: 50,
+  SEK: 300,
+  NOK: 300,
+  DKK: 250,
+  PLN: 200,
+  JPY: 50,
+};
+/** The largest: eight digits of minor units (same sources). */
+export const PAYMENT_MAXIMUM_MINOR = 99_999_999;
+
+/** Why the payment service would refuse to take this deposit in one payment, or null when it would take it. */
+export function unchargeableDeposit(amountMinor: number, currency: string): string | null {
+  const minimum = isCurrency(currency) ? PAYMENT_MINIMUM_MINOR[currency] : 0;
+  if (amountMinor < minimum) return `A deposit of ${formatMoney(amountMinor, currency)} is below the smallest payment the payment service takes (${formatMoney(minimum, currency)}).`;
+  if (amountMinor > PAYMENT_MAXIMUM_MINOR) return `A deposit of ${formatMoney(amountMinor, currency)} is above the largest payment the payment service takes (${formatMoney(PAYMENT_MAXIMUM_MINOR, currency)}).`;
+  return null;
+}
+
+/**
  * The deposit part of the settings form. Only the chosen rule's field is required; the other, when
  * filled in, must still make sense (it is kept for the next switch).
  */
@@ -84,6 +115,11 @@ export function depositRuleSchema(currency: string) {
       const minor = parseMoney(dataset.value, currency);
       if (minor === null || minor <= 0 || minor > 100_000_000) {
         addIssue({ message: `Enter an amount in ${currency} above zero, such as ${moneyInputValue(5000, currency)}.` });
+        return NEVER;
+      }
+      const unchargeable = unchargeableDeposit(minor, currency);
+      if (unchargeable) {
+        addIssue({ message: `${unchargeable} Enter a larger amount.`.replace(/^A deposit of/, "A fixed deposit of") });
         return NEVER;
       }
       return minor;

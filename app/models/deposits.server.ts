@@ -3,7 +3,7 @@ import { and, asc, desc, eq, inArray, sql, type SQLWrapper } from "drizzle-orm";
 import Stripe from "stripe";
 import { customers, depositMoves, deposits, orderLines, orders, shops } from "../../db/schema";
 import { getDb } from "~/db.server";
-import { balanceOf, depositFor, type DepositStatus } from "~/lib/deposits";
+import { balanceOf, depositFor, unchargeableDeposit, type DepositStatus } from "~/lib/deposits";
 import { payments } from "~/payments.server";
 
 /** A deposit that cannot be asked or refunded as things stand; the message is for people. */
@@ -46,6 +46,8 @@ export async function openDeposit(shopId: string, orderId: string): Promise<{ id
     const [{ total }] = await tx.select({ total: orderTotal(order.id) }).from(orders).where(eq(orders.id, order.id));
     const amountMinor = depositFor(shop, Number(total));
     if (amountMinor === null) throw new DepositError("The shop's deposit rule asks nothing of this order: set one in Settings.");
+    const unchargeable = unchargeableDeposit(amountMinor, shop.currency);
+    if (unchargeable) throw new DepositError(`${unchargeable} No payment link was made.`);
     const [row] = await tx
       .insert(deposits)
       .values({ shopId, orderId: order.id, amountMinor, currency: shop.currency, linkToken: randomBytes(24).toString("base64url") })

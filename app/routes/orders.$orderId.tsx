@@ -14,7 +14,7 @@ import { checkLines, rawLinesFrom } from "~/lib/order-lines";
 import { OrderHeaderSchema } from "~/lib/order-schema";
 import { linesEditable, nextStatuses, ORDER_STATUSES, STATUS_LABELS } from "~/lib/order-status";
 import { can } from "~/lib/permissions";
-import { balanceOf } from "~/lib/deposits";
+import { balanceOf, unchargeableDeposit } from "~/lib/deposits";
 import { depositLink, sendConfirmation, sendDepositRequest } from "~/models/confirmation.server";
 import { DepositError, openDeposit, orderDeposit, orderMoves, proposedDeposit, refundDeposit } from "~/models/deposits.server";
 import { publicOrigin } from "~/mail.server";
@@ -90,6 +90,13 @@ export async function action(args: Route.ActionArgs) {
   try {
     switch (input.intent) {
       case "move": {
+        if (input.to === "confirmed" && input.deposit === "yes" && paymentsConfigured()) {
+          // Refused before the order moves, so a deposit the payment service would not take leaves it unconfirmed.
+          const proposed = await proposedDeposit(user.shopId, orderId);
+          const shop = proposed === null ? null : await getShop(user.shopId);
+          const unchargeable = shop && unchargeableDeposit(proposed!, shop.currency);
+          if (unchargeable) return fail(`${unchargeable} The order was not confirmed: untick the deposit to confirm it without one.`);
+        }
         const before = await moveOrder(user.shopId, orderId, input.to);
         if (before === null) throw notFound();
         if (input.to === "confirmed") {
@@ -223,7 +230,9 @@ export default function OrderPage({ loaderData, actionData }: Route.ComponentPro
 
       {canWrite && nextStatuses(order.status).length > 0 && (
         <div className="space-y-2">
-          {nextStatuses(order.status).includes("confirmed") && deposits?.proposedMinor ? (
+          {nextStatuses(order.status).includes("confirmed") && deposits?.proposedMinor && unchargeableDeposit(deposits.proposedMinor, currency) ? (
+            <p className="text-sm text-muted">{unchargeableDeposit(deposits.proposedMinor, currency)} The order confirms without one; take it another way.</p>
+          ) : nextStatuses(order.status).includes("confirmed") && deposits?.proposedMinor ? (
             // Sent with the confirm button's form (the form attribute), shown above the row of buttons.
             <label className="flex min-h-11 items-center gap-2 text-sm">
               <input type="checkbox" name="deposit" value="yes" form="move-confirmed" defaultChecked className="size-5 accent-edge" />

@@ -207,6 +207,36 @@ describe("deposits", () => {
     expect((await request(server).get("/pay/no-such-link-token-at-all-0000")).status).toBe(404);
   });
 
+  it("a deposit below the payment service's smallest payment is not offered, and a hand-made ask leaves the order as it was", async () => {
+    const tiny = await createShop("Tiny deposits");
+    await db.update(t.shops).set({ depositRule: "percent", depositPercent: 1 }).where(eq(t.shops.id, tiny.id));
+    const tinyCat = await createCatalogue(tiny.id);
+    const tinyOwner = await signIn(server, tiny.users.owner);
+    // One place card: 1 % of €1.80 is €0.02, below the €0.50 the service takes at least.
+    const order = await createOrder(tiny.id, { customerId: tinyCat.customer.id, eventDate: "2027-06-12", dueDate: "2027-05-29", notes: "" }, [
+      { productId: tinyCat.placeCard.id, quantity: 1, personalisation: [], notes: "", files: [] },
+    ]);
+    const page = visible((await request(server).get(`/orders/${order.id}`).set("Cookie", tinyOwner)).text);
+    expect(page).toContain("A deposit of €0.02 is below the smallest payment the payment service takes (€0.50). The order confirms without one; take it another way.");
+    expect(page).not.toContain("Ask a deposit of");
+    const seen = mailTo(tinyCat.customer.email).length;
+    const refused = await request(server).post(`/orders/${order.id}`).set("Cookie", tinyOwner).field("intent", "move").field("to", "confirmed").field("deposit", "yes");
+    expect(refused.status).toBe(409);
+    expect(visible(refused.text)).toContain("The order was not confirmed: untick the deposit to confirm it without one.");
+    const [row] = await db.select({ status: t.orders.status, sent: t.orders.confirmationSentAt }).from(t.orders).where(eq(t.orders.id, order.id));
+    expect(row).toEqual({ status: "draft", sent: null });
+    // Without the deposit it confirms as usual; the deposit area then says the same, with no ask button.
+    expect((await request(server).post(`/orders/${order.id}`).set("Cookie", tinyOwner).field("intent", "move").field("to", "confirmed")).status).toBe(302);
+    await waitForMail(tinyCat.customer.email, seen);
+    const confirmed = visible((await request(server).get(`/orders/${order.id}`).set("Cookie", tinyOwner)).text);
+    expect(confirmed).toContain("A deposit of €0.02 is below the smallest payment the payment service takes (€0.50). Take this one another way.");
+    expect(confirmed).not.toContain("Ask a deposit of");
+    const asked = await request(server).post(`/orders/${order.id}`).set("Cookie", tinyOwner).field("intent", "request-deposit");
+    expect(asked.status).toBe(409);
+    expect(visible(asked.text)).toContain("A deposit of €0.02 is below the smallest payment the payment service takes (€0.50). No payment link was made.");
+    expect(await db.select().from(t.deposits).where(eq(t.deposits.orderId, order.id))).toEqual([]);
+  });
+
   it("a checkout session the payment service no longer knows (a restarted fake, a purged session) is replaced by a new one", async () => {
     const order = await draftOrder();
     const deposit = await confirmWithDeposit(order.id);

@@ -1,10 +1,35 @@
 import { describe, expect, it } from "vitest";
 import { depositMonths, depositOrderRows, depositLedgerCsv } from "~/lib/deposit-ledger";
-import { balanceOf, depositFor } from "~/lib/deposits";
+import * as v from "valibot";
+import { balanceOf, depositFor, depositRuleSchema, PAYMENT_MAXIMUM_MINOR, unchargeableDeposit } from "~/lib/deposits";
 import { parsePeriod } from "~/lib/ledger-report";
 
 const percent = (p: number) => ({ depositRule: "percent" as const, depositPercent: p, depositFixedMinor: null });
 const fixed = (minor: number) => ({ depositRule: "fixed" as const, depositPercent: null, depositFixedMinor: minor });
+
+describe("what the payment service takes in one payment", () => {
+  // Its published minimums: USD 0.50 (docs.stripe.com/currencies, also in its SDKs' API docs), GBP 0.30
+  // (help pages citing that table), JPY 50 (same table, from memory); at most eight digits of minor units.
+  it("refuses a deposit below the currency's minimum or above eight digits, naming both amounts", () => {
+    expect(unchargeableDeposit(49, "USD")).toBe("A deposit of US$0.49 is below the smallest payment the payment service takes (US$0.50).");
+    expect(unchargeableDeposit(50, "USD")).toBeNull();
+    expect(unchargeableDeposit(29, "GBP")).toMatch(/below the smallest payment .*£0\.30/);
+    expect(unchargeableDeposit(30, "GBP")).toBeNull();
+    expect(unchargeableDeposit(49, "JPY")).toMatch(/¥50/);
+    expect(unchargeableDeposit(PAYMENT_MAXIMUM_MINOR, "EUR")).toBeNull();
+    expect(unchargeableDeposit(PAYMENT_MAXIMUM_MINOR + 1, "EUR")).toMatch(/above the largest payment the payment service takes \(€999,999\.99\)/);
+  });
+
+  it("the settings refuse a fixed deposit the service would not take, on its field", () => {
+    const read = (depositFixedMinor: string, currency = "EUR") => v.safeParse(depositRuleSchema(currency), { depositRule: "fixed", depositPercent: "", depositFixedMinor });
+    const low = read("0.20");
+    expect(low.success).toBe(false);
+    expect(low.issues?.[0].message).toBe("A fixed deposit of €0.20 is below the smallest payment the payment service takes (€0.50). Enter a larger amount.");
+    expect(low.issues?.[0].path?.[0].key).toBe("depositFixedMinor");
+    expect(read("0.50").success).toBe(true);
+    expect(read("0.30", "GBP").success).toBe(true);
+  });
+});
 
 describe("the deposit a rule asks", () => {
   it("a percentage of the total, rounded half up to the minor unit, in integers", () => {
