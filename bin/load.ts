@@ -9,7 +9,7 @@
 //   LOAD_MAX_REQUESTS per instance (20,000)
 import autocannon from "autocannon";
 import { randomUUID } from "node:crypto";
-import { writeFileSync } from "node:fs";
+import { readFileSync, writeFileSync } from "node:fs";
 import { cpus, loadavg } from "node:os";
 import { sql } from "drizzle-orm";
 import { generateIdFromEntropySize } from "lucia";
@@ -158,6 +158,41 @@ function drive(url: string, options: { connections: number; rate?: number; next:
   });
 }
 
+/** CPU seconds used so far by this script's child processes (the app server and its threads), from /proc (Linux). */
+function childCpuSeconds(): number {
+  try {
+    const children = readFileSync(`/proc/${process.pid}/task/${process.pid}/children`, "utf8").trim().split(/\s+/).filter(Boolean);
+    let ticks = 0;
+    for (const pid of children) {
+      const fields = readFileSync(`/proc/${pid}/stat`, "utf8").split(") ")[1].split(" ");
+      ticks += Number(fields[11]) + Number(fields[12]); // utime, stime (fields 14 and 15 of stat)
+    }
+    return ticks / 100; // USER_HZ is 100 on Linux
+  } catch {
+    return NaN;
+  }
+}
+
+/** The whole machine's busy and total CPU time so far (all cores), from /proc/stat. */
+function machineCpu(): { busy: number; total: number } {
+  try {
+    const [, ...values] = readFileSync("/proc/stat", "utf8").split("\n")[0].trim().split(/\s+/);
+    const [user, nice, system, idle, iowait, irq, softirq, steal] = values.map(Number);
+    const busy = user + nice + system + irq + softirq + steal;
+    return { busy, total: busy + idle + iowait };
+  } catch {
+    return { busy: NaN, total: NaN };
+  }
+}
+
+/** Runs `work`, and says how much CPU the app and the whole machine used meanwhile. */
+async function withCpu<T>(work: () => Promise<T>): Promise<T & { appCpu: number; machineBusy: number }> {
+  const [app0, m0, t0] = [childCpuSeconds(), machineCpu(), performance.now()];
+  const result = await work();
+  const [app1, m1, seconds] = [childCpuSeconds(), machineCpu(), (performance.now() - t0) / 1000];
+  return { ...result, appCpu: (app1 - app0) / seconds, machineBusy: ((m1.busy - m0.busy) / (m1.total - m0.total)) * cpus().length };
+}
+
 const emptySamples = (routes: Route[]) => new Map(routes.map((r) => [r, { latencies: [] as number[], classes: { "2xx": 0, "3xx": 0, "4xx": 0, "5xx": 0 } as Record<string, number> }]));
 
 /** Capacity: every route at once, CONNECTIONS each, no pause; each request takes the next of the role's sessions. */
@@ -271,8 +306,8 @@ for (const r of routes) await fetch(`${app.url}${r.paths()}`, { headers: { cooki
 
 const phases: Breakdown[] = [];
 for (const r of routes.filter((r) => r.kind !== "write")) phases.push(await breakdown(app.url, r, cookies[r.role][0]));
-const ratedRun = await rated(app.url, routes, cookies);
-const capacityRun = await saturate(app.url, routes, cookies);
+const ratedRun = await withCpu(() => rated(app.url, routes, cookies));
+const capacityRun = await withCpu(() => saturate(app.url, routes, cookies));
 const loadAfter = loadavg();
 
 const lines: string[] = [];
@@ -283,7 +318,7 @@ const say = (text: string) => {
 const round = (x: number) => (Number.isFinite(x) ? Math.round(x * 10) / 10 : NaN);
 const people = PEOPLE_PER_ROLE * 4;
 
-function table(run: Run) {
+function table(run: Run & { appCpu: number; machineBusy: number }) {
   say("| route | role | kind | requests | req/s | p50 ms | p95 ms | p99 ms | 2xx | 3xx | 4xx | 5xx |\n|---|---|---|---|---|---|---|---|---|---|---|---|");
   for (const [route, { latencies: l, classes }] of run.byRoute) {
     l.sort((a, b) => a - b);
@@ -293,6 +328,7 @@ function table(run: Run) {
   const total = all.reduce((n, r) => n + r.latencies.length, 0);
   const fiveXX = all.reduce((n, r) => n + r.classes["5xx"], 0);
   say(`\nAll routes: ${total.toLocaleString("en")} requests in ${run.seconds} s (${round(total / run.seconds)} req/s), ${fiveXX} answered 5xx, ${run.errors} connection errors, ${run.timeouts} timeouts. Writes answer 302 (redirect after post).`);
+  say(`CPU meanwhile (from /proc): the app process used ${run.appCpu.toFixed(2)} of a core; the whole machine was busy ${run.machineBusy.toFixed(2)} of its ${cpus().length} cores (PostgreSQL, autocannon and everything else running beside it).`);
   return { total, fiveXX };
 }
 
