@@ -87,4 +87,46 @@ describe("packing properties", () => {
       { numRuns: 15 },
     );
   });
+
+  // long thin parts, a few per panel: the path with exact fills and the pool search (exact.ts, pool.ts)
+  const longThinJob: fc.Arbitrary<Job> = fc
+    .record({
+      kerf: fc.constantFrom(0, 3.2, 4.5),
+      trim: fc.constantFrom(0, 10),
+      seed: fc.integer({ min: 0, max: 1000 }),
+      parts: fc.array(
+        fc.record({
+          along: fc.integer({ min: 52, max: 95 }),
+          across: fc.integer({ min: 5, max: 45 }),
+          quantity: fc.integer({ min: 1, max: 4 }),
+          rotate: fc.boolean(),
+        }),
+        { minLength: 3, maxLength: 12 },
+      ),
+    })
+    .map((r) => ({
+      kerf: r.kerf,
+      trim: r.trim,
+      stages: 0 as const,
+      objective: "sheets" as const,
+      seed: r.seed,
+      timeLimitMs: 200,
+      stock: [{ id: "ply", length: 1220, width: 610, quantity: null, cost: 20, grain: "none" as const, trimmed: true }],
+      parts: r.parts.map((p, i) => ({ id: `p${i}`, length: (1200 * p.along) / 100, width: (600 * p.across) / 100, quantity: p.quantity, rotate: p.rotate })),
+    }));
+
+  it("long thin parts a few per panel: valid plans, every part placed, same plan for the same seed", () => {
+    fc.assert(
+      fc.property(longThinJob, (job) => {
+        const a = planFor(job);
+        expect(validatePlan(job, a).errors).toEqual([]);
+        expect(a.unplaced).toEqual([]);
+        expect(a.metrics.lowerBound).toBeLessThanOrEqual(a.metrics.sheets);
+        const b = planFor(job);
+        a.metrics.elapsedMs = b.metrics.elapsedMs = 0;
+        expect(a).toEqual(b);
+      }),
+      { numRuns: 25 },
+    );
+  });
 });

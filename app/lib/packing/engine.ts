@@ -3,6 +3,7 @@ import { areaBound, bigItemBound, dffBound, type BoundItem } from "./bounds";
 import type { BinContext, FillParams, GuillotineParams, Orient } from "./fill";
 import { goalDrivenGuillotine } from "./goal";
 import { layoutPanel, type RectUm } from "./layout";
+import { fullestConstructive, poolSearch, poolSearchApplies } from "./pool";
 import { mulberry32 } from "./prng";
 import {
   basicKey,
@@ -41,6 +42,12 @@ export function columnVariants(): FillParams[] {
 
 /** share of the parts (by count) above which the column filler joins the search */
 const LONG_THIN_SHARE = 0.7;
+/** exact fills (exact.ts, pool.ts) where long thin parts average at most this many per panel at the lower bound */
+const FEW_PARTS_PER_PANEL = 6;
+/** node limit of each panel's fullest fill in the exact start */
+const FULLEST_NODES = 200;
+/** the goal-driven search gets this share of the improvement time, the pool search the rest */
+const POOL_SHARE_START = 0.5;
 
 /** Share of the parts that are long and thin on some panel: longer than half of it one way, at most half the other way. */
 function longThinShare(prep: Prepared): number {
@@ -294,14 +301,24 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
   const allOrders = Array.from({ length: ORDER_COUNT }, (_, i) => i);
   const cands: Solution[] = [];
   const hasOffcuts = prep.slots.some((s) => s.offcut);
-  cands.push(constructive(input, buildVariants, allOrders, t0 + budget * 0.25));
-  if (hasOffcuts) cands.push(constructive({ ...input, offcutsFirst: false }, buildVariants, allOrders, t0 + budget * 0.35));
+  // long thin parts, a few per panel (stages 0): panels filled as fully as the exact search makes
+  // them give a start, and the pool search with exact repacking shares the improvement time
+  const exactFills = columns.length > 0 && totalParts <= Math.max(1, lb) * FEW_PARTS_PER_PANEL;
+  if (exactFills) {
+    const f = fullestConstructive(input, FULLEST_NODES, variants[0], t0 + budget * 0.3);
+    if (f) cands.push(f);
+  }
+  // the constructive passes keep their shares of the budget after that start
+  const tc = now() - t0;
+  const at = (share: number) => t0 + Math.max(tc, budget * share);
+  cands.push(constructive(input, buildVariants, allOrders, at(0.25)));
+  if (hasOffcuts) cands.push(constructive({ ...input, offcutsFirst: false }, buildVariants, allOrders, at(0.35)));
   // single-heuristic passes give plans of different character (set-ups, strip structure)
   const singles = job.objective === "setups" ? variants.length : Math.min(8, variants.length);
-  for (let i = 0; i < singles && now() < t0 + budget * 0.45; i++) {
+  for (let i = 0; i < singles && now() < at(0.45); i++) {
     const v = job.objective === "setups" ? variants[i] : variants[Math.floor((i * variants.length) / singles)];
     for (const o of job.objective === "setups" ? allOrders : [i % ORDER_COUNT]) {
-      if (now() >= t0 + budget * 0.45) break;
+      if (now() >= at(0.45)) break;
       cands.push(constructive(input, [v], [o], Infinity));
     }
   }
@@ -311,10 +328,17 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
   // improvement: leave a little time to lay out and check the plan
   const nParts = prep.demand.reduce((a, b) => a + b, 0);
   const improveEnd = t0 + budget * 0.92 - Math.min(budget * 0.3, nParts * 0.06);
-  const improved =
-    job.stages === 0
-      ? goalDrivenGuillotine({ ...input, deadline: improveEnd }, best, variants as GuillotineParams[], buildVariants)
-      : ruinAndRecreate({ ...input, deadline: improveEnd }, best, variants);
+  let improved: Solution;
+  if (job.stages === 0) {
+    const exactToo = exactFills && poolSearchApplies(best);
+    const tNow = now();
+    const mid = exactToo ? tNow + (improveEnd - tNow) * POOL_SHARE_START : improveEnd;
+    improved = goalDrivenGuillotine({ ...input, deadline: mid }, best, variants as GuillotineParams[], buildVariants);
+    if (exactToo) {
+      cands.push(improved);
+      improved = poolSearch({ ...input, deadline: improveEnd }, improved, variants[0]);
+    }
+  } else improved = ruinAndRecreate({ ...input, deadline: improveEnd }, best, variants);
   cands.push(improved);
   const finals = cands.map((c) => (prep.slots.length > 1 ? downsize(input, c, variants) : c));
 
