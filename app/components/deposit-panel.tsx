@@ -1,6 +1,6 @@
 import { Form } from "react-router";
 import { SubmitButton } from "./forms";
-import { DEPOSIT_STATUS_LABELS, unchargeableDeposit, type DepositStatus } from "~/lib/deposits";
+import { DEPOSIT_FILTER_LABELS, DEPOSIT_STATUS_LABELS, unchargeableDeposit, type DepositStatus } from "~/lib/deposits";
 import { formatMoney } from "~/lib/money";
 
 export type DepositView = {
@@ -89,4 +89,10 @@ function Figure({ label, value, strong, testId }: { label: string; value: string
       </dd>
     </div>
   );
+}
+
+/** A list's short word on an order's latest deposit. */
+export function DepositBadge({ status }: { status: DepositStatus | null }) {
+  if (!status) return <span className="text-muted">—</span>;
+  return <span className={`whitespace-nowrap rounded-full px-2 py-0.5 text-xs font-semibold ${TONE[status]}`}>{DEPOSIT_FILTER_LABELS[status]}</span>;
 }

@@ -14,6 +14,16 @@ export const DEPOSIT_RULE_LABELS: Record<DepositRuleKind, string> = {
 };
 
 export type DepositStatus = "requested" | "paid" | "refund_pending" | "refunded";
+/** The order list's deposit filter: the latest deposit's status, or "none" when none was ever asked. */
+export const DEPOSIT_FILTERS = ["none", "requested", "paid", "refund_pending", "refunded"] as const;
+export const DEPOSIT_FILTER_LABELS: Record<(typeof DEPOSIT_FILTERS)[number], string> = {
+  none: "None asked",
+  requested: "Asked, not paid",
+  paid: "Paid",
+  refund_pending: "Refund on its way",
+  refunded: "Refunded",
+};
+
 export const DEPOSIT_STATUS_LABELS: Record<DepositStatus, string> = {
   requested: "Deposit requested",
   paid: "Deposit paid",

@@ -2,13 +2,14 @@ import { and, asc, count, desc, eq, ilike, inArray, isNull, or, sql } from "driz
 import { batches, batchLines, customers, lineFiles, orderLines, orders, products, shops } from "../../db/schema";
 import { getDb } from "~/db.server";
 import { batchCode } from "~/lib/batches";
+import { DEPOSIT_FILTERS, type DepositStatus } from "~/lib/deposits";
 import { likePattern, parseListQuery, type ListQuery } from "~/lib/listing";
 import { checkLineTexts } from "~/lib/order-lines";
 import { canMoveTo, linesEditable, ORDER_STATUSES, type OrderStatus } from "~/lib/order-status";
 
 export const ORDER_SORTS = ["number", "customer", "event", "due", "status", "total"] as const;
 export type OrderSort = (typeof ORDER_SORTS)[number];
-export const ORDER_FILTERS = { status: ORDER_STATUSES } as const;
+export const ORDER_FILTERS = { status: ORDER_STATUSES, deposit: DEPOSIT_FILTERS } as const;
 
 export class OrderStateError extends Error {}
 
@@ -19,6 +20,8 @@ export function orderListQuery(request: Request): ListQuery<OrderSort> {
 
 const lineTotal = sql<number>`coalesce((select sum(${orderLines.quantity}::bigint * ${orderLines.unitPriceMinor}) from ${orderLines} where ${orderLines.orderId} = ${orders.id}), 0)::bigint`;
 const itemCount = sql<number>`coalesce((select sum(${orderLines.quantity}) from ${orderLines} where ${orderLines.orderId} = ${orders.id}), 0)::int`;
+// The status of the order's latest deposit (one index probe per listed order), null when none was asked.
+const latestDeposit = sql<DepositStatus | null>`(select d.status from deposits d where d.shop_id = "orders"."shop_id" and d.order_id = "orders"."id" order by d.requested_at desc limit 1)`;
 
 export type OrderListRow = {
   id: string;
@@ -29,15 +32,19 @@ export type OrderListRow = {
   status: OrderStatus;
   items: number;
   totalMinor: number;
+  /** The latest deposit's status, for those who may see deposits (else always null). */
+  deposit: DepositStatus | null;
 };
 
 /** One page of the shop's orders, sorted and filtered in PostgreSQL (the shop's 10,000 orders never reach Node). */
-export async function listOrders(shopId: string, query: ListQuery<OrderSort>): Promise<{ rows: OrderListRow[]; total: number }> {
+export async function listOrders(shopId: string, query: ListQuery<OrderSort>, { deposits: seesDeposits }: { deposits: boolean }): Promise<{ rows: OrderListRow[]; total: number }> {
   const db = getDb();
   const q = query.q.replace(/^#/, "");
+  const depositFilter = seesDeposits ? query.filters.deposit : undefined;
   const where = and(
     eq(orders.shopId, shopId),
     query.filters.status ? eq(orders.status, query.filters.status as OrderStatus) : undefined,
+    depositFilter ? (depositFilter === "none" ? sql`${latestDeposit} is null` : sql`${latestDeposit} = ${depositFilter}`) : undefined,
     q ? or(ilike(customers.name, likePattern(q)), /^\d+$/.test(q) ? eq(orders.number, Number(q)) : undefined) : undefined,
   );
   const sortColumn = { number: orders.number, customer: customers.name, event: orders.eventDate, due: orders.dueDate, status: orders.status, total: lineTotal }[query.sort];
@@ -52,6 +59,7 @@ export async function listOrders(shopId: string, query: ListQuery<OrderSort>): P
         status: orders.status,
         items: itemCount,
         totalMinor: lineTotal,
+        deposit: seesDeposits ? latestDeposit : sql<null>`null`,
       })
       .from(orders)
       .innerJoin(customers, eq(customers.id, orders.customerId))

@@ -1,5 +1,6 @@
 import type { Route } from "./+types/api.orders";
 import { requirePermission } from "~/auth.server";
+import { can } from "~/lib/permissions";
 import { listOrders, orderListQuery } from "~/models/orders.server";
 import { timed } from "~/timing.server";
 
@@ -7,6 +8,6 @@ import { timed } from "~/timing.server";
 export async function loader(args: Route.LoaderArgs) {
   const user = requirePermission(args, "orders:read");
   const query = orderListQuery(args.request);
-  const { rows, total } = await timed("queries", () => listOrders(user.shopId, query));
+  const { rows, total } = await timed("queries", () => listOrders(user.shopId, query, { deposits: can(user.role, "deposits:read") }));
   return Response.json({ rows, total, query }, { headers: { "Cache-Control": "no-store" } });
 }

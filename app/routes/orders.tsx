@@ -5,8 +5,10 @@ import type { Route } from "./+types/orders";
 import { requirePermission } from "~/auth.server";
 import { ListSearch, ListTable, type Column } from "~/components/list-table";
 import { PageHeader } from "~/components/page-header";
+import { DepositBadge } from "~/components/deposit-panel";
 import { StatusBadge } from "~/components/status-badge";
 import { formatDate } from "~/lib/dates";
+import { DEPOSIT_FILTER_LABELS, DEPOSIT_FILTERS } from "~/lib/deposits";
 import type { ListQuery } from "~/lib/listing";
 import { formatMoney } from "~/lib/money";
 import { ORDER_STATUSES, STATUS_LABELS } from "~/lib/order-status";
@@ -19,8 +21,9 @@ import { timed } from "~/timing.server";
 export async function loader(args: Route.LoaderArgs) {
   const user = requirePermission(args, "orders:read");
   const query = orderListQuery(args.request);
-  const [{ rows, total }, shop] = await timed("queries", () => Promise.all([listOrders(user.shopId, query), getShop(user.shopId)]));
-  return { page: { rows, total, query }, currency: shop.currency, canWrite: can(user.role, "orders:write") };
+  const seesDeposits = can(user.role, "deposits:read");
+  const [{ rows, total }, shop] = await timed("queries", () => Promise.all([listOrders(user.shopId, query, { deposits: seesDeposits }), getShop(user.shopId)]));
+  return { page: { rows, total, query }, currency: shop.currency, canWrite: can(user.role, "orders:write"), seesDeposits };
 }
 
 type Page = { rows: OrderListRow[]; total: number; query: ListQuery<OrderSort> };
@@ -38,7 +41,7 @@ export default function Orders({ loaderData }: Route.ComponentProps) {
   useEffect(() => {
     void mutate(loaderData.page, { revalidate: false });
   }, [loaderData.page, mutate]);
-  const { currency, canWrite } = loaderData;
+  const { currency, canWrite, seesDeposits } = loaderData;
   const columns: Column<OrderListRow>[] = [
     { key: "number", label: "Order", sortable: true, cell: (o) => <a href={`/orders/${o.id}`} className="font-semibold text-edge hover:underline">{`#${o.number}`}</a> },
     { key: "customer", label: "Customer", sortable: true, cell: (o) => o.customer },
@@ -48,6 +51,7 @@ export default function Orders({ loaderData }: Route.ComponentProps) {
     { key: "items", label: "Items", align: "right", cell: (o) => o.items },
     { key: "total", label: "Total", sortable: true, align: "right", cell: (o) => formatMoney(o.totalMinor, currency) },
   ];
+  if (seesDeposits) columns.splice(5, 0, { key: "deposit", label: "Deposit", cell: (o) => <DepositBadge status={o.deposit} /> });
   const current = page ?? loaderData.page;
   return (
     <div className="space-y-6">
@@ -73,6 +77,19 @@ export default function Orders({ loaderData }: Route.ComponentProps) {
             ))}
           </select>
         </label>
+        {seesDeposits && (
+          <label className="space-y-1 text-sm font-medium">
+            <span className="block">Deposit</span>
+            <select name="deposit" defaultValue={params.get("deposit") ?? ""} className="block min-h-11 rounded-md border border-line bg-white px-3">
+              <option value="">Any</option>
+              {DEPOSIT_FILTERS.map((d) => (
+                <option key={d} value={d}>
+                  {DEPOSIT_FILTER_LABELS[d]}
+                </option>
+              ))}
+            </select>
+          </label>
+        )}
       </ListSearch>
       {error && <p className="text-sm text-bad">{error.message} Showing the last list loaded.</p>}
       <ListTable rows={current.rows} columns={columns} total={current.total} page={current.query.page} size={current.query.size} sort={current.query.sort} dir={current.query.dir} empty="No orders match." />

@@ -2,7 +2,7 @@
 // the link opens a Checkout Session at the local fake payment service (started by bin/test); webhook
 // events are verified, recorded once, in minor units; the owner refunds; the bookkeeper reads.
 import { parse } from "csv-parse/sync";
-import { and, eq } from "drizzle-orm";
+import { and, desc, eq } from "drizzle-orm";
 import request from "supertest";
 import { beforeAll, describe, expect, it } from "vitest";
 import * as t from "../../db/schema";
@@ -271,6 +271,35 @@ describe("deposits", () => {
     } finally {
       await refusing.stop();
     }
+  });
+
+  it("the order list shows each order's latest deposit and filters by it, for those who see deposits", async () => {
+    await draftOrder(); // one with no deposit asked
+    const rows = await db.select({ number: t.orders.number, id: t.orders.id }).from(t.orders).where(eq(t.orders.shopId, shop.id));
+    const latest = new Map<number, string | null>();
+    for (const o of rows) {
+      const [d] = await db.select({ status: t.deposits.status }).from(t.deposits).where(eq(t.deposits.orderId, o.id)).orderBy(desc(t.deposits.requestedAt)).limit(1);
+      latest.set(o.number, d?.status ?? null);
+    }
+    const kinds = new Set(latest.values());
+    expect([...kinds].map(String).sort()).toEqual(["null", "paid", "refunded", "requested"]); // the tests above made each kind
+    const list = await request(server).get("/api/orders?size=100").set("Cookie", owner);
+    expect(new Map(list.body.rows.map((r: { number: number; deposit: string | null }) => [r.number, r.deposit]))).toEqual(latest);
+    for (const kind of ["requested", "paid", "refunded", "none"] as const) {
+      const filtered = await request(server).get(`/api/orders?size=100&deposit=${kind}`).set("Cookie", owner);
+      const expected = [...latest].filter(([, s]) => s === (kind === "none" ? null : kind)).map(([n]) => n).sort();
+      expect(filtered.body.rows.map((r: { number: number }) => r.number).sort(), kind).toEqual(expected);
+    }
+    const page = visible((await request(server).get("/orders?deposit=paid&size=100").set("Cookie", owner)).text);
+    expect(page).toContain(">Deposit<");
+    expect(page).toContain(">Paid</span>");
+    expect(page).not.toContain(">Asked, not paid</span>");
+    // The planner reads orders but not deposits: no column, no figures, the filter is ignored.
+    const planner = await signIn(server, shop.users.planner);
+    const theirs = await request(server).get("/api/orders?size=100&deposit=paid").set("Cookie", planner);
+    expect(theirs.body.total).toBe(rows.length);
+    expect(theirs.body.rows.every((r: { deposit: unknown }) => r.deposit === null)).toBe(true);
+    expect(visible((await request(server).get("/orders").set("Cookie", planner)).text)).not.toContain(">Deposit<");
   });
 
   it("the bookkeeper's deposits ledger lists each order's deposit and balance, per month, and its CSV parses back to the same figures", async () => {
