@@ -79,12 +79,12 @@ type Outcome = { kind: "done"; plan: Plan } | { kind: "cancelled" } | { kind: "f
 
 /** Runs one plan to its end; never throws for a plan's own failure (it is recorded on the plan). */
 export async function runPlan(planId: string): Promise<void> {
-  const db = getDb();
-  const [plan] = await db
-    .update(plans)
-    .set({ status: "running", startedAt: new Date() })
-    .where(and(eq(plans.id, planId), eq(plans.status, "queued")))
-    .returning();
+  // Taking the plan waits for the database like the save does: the queue has handed this job over
+  // once, and a job whose plan row was never marked would leave the plan queued for good.
+  const [plan] = await untilDatabaseAnswers(
+    () => getDb().update(plans).set({ status: "running", startedAt: new Date() }).where(and(eq(plans.id, planId), eq(plans.status, "queued"))).returning(),
+    PREPARE_PATIENCE_MS,
+  );
   if (!plan) return; // cancelled while queued, or taken by another runner
   active.add(plan.id);
   try {
@@ -101,9 +101,11 @@ async function planAndSave(plan: typeof plans.$inferSelect): Promise<void> {
   let stockRefs: PlanResult["stockRefs"] = {};
   let blanks = 0;
   try {
-    const [batch] = await db.select().from(batches).where(eq(batches.id, plan.batchId));
-    const shop = await getShop(plan.shopId);
-    const built = await buildPackingJob(shop, batch, plan.settings);
+    // Only reads: after a restart of PostgreSQL a pooled connection may fail once, so they are retried.
+    const built = await untilDatabaseAnswers(async () => {
+      const [batch] = await db.select().from(batches).where(eq(batches.id, plan.batchId));
+      return buildPackingJob(await getShop(plan.shopId), batch, plan.settings);
+    }, PREPARE_PATIENCE_MS);
     stockRefs = built.stockRefs;
     blanks = built.cutList.blanks.length;
     const bounded = checkJobLimits(built.job);
@@ -121,18 +123,19 @@ async function planAndSave(plan: typeof plans.$inferSelect): Promise<void> {
     const reason = isDatabaseUnavailable(error) ? "The database was away while the plan was being prepared. Run the plan again." : error instanceof Error ? error.message : String(error);
     outcome = { kind: "failed", reason };
   }
-  await untilDatabaseAnswers(() => finish(plan.id, plan.batchId, outcome, stockRefs, blanks));
+  await untilDatabaseAnswers(() => finish(plan.id, plan.batchId, outcome, stockRefs, blanks), SAVE_PATIENCE_MS);
 }
-
-const SAVE_PATIENCE_MS = 10 * 60_000;
 
 // A plan that took minutes is not thrown away because PostgreSQL restarted as it ended: the save
 // waits for the database (bounded), and the sweep fails the plan if this process dies meanwhile.
-async function untilDatabaseAnswers(write: () => Promise<void>): Promise<void> {
-  const giveUpAt = Date.now() + SAVE_PATIENCE_MS;
+const SAVE_PATIENCE_MS = 10 * 60_000;
+const PREPARE_PATIENCE_MS = 60_000;
+
+async function untilDatabaseAnswers<T>(work: () => Promise<T>, patienceMs: number): Promise<T> {
+  const giveUpAt = Date.now() + patienceMs;
   for (let wait = 250; ; wait = Math.min(wait * 2, 5000)) {
     try {
-      return await write();
+      return await work();
     } catch (error) {
       if (!isDatabaseUnavailable(error) || Date.now() > giveUpAt) throw error;
       await new Promise((r) => setTimeout(r, wait));

@@ -144,7 +144,8 @@ describe("PostgreSQL restarts while a plan runs", () => {
 
     // The same runner and app carry on: a new plan is planned, and the first one releases.
     const again = await requestPlan(shop.id, batchId, settings(300));
-    expect((await waitForPlan(again, (p) => p.status !== "queued" && p.status !== "running", 30)).status).toBe("done");
+    const planned = await waitForPlan(again, (p) => p.status !== "queued" && p.status !== "running", 30);
+    expect(planned.status, planned.error ?? "").toBe("done");
     const released = await request(server).post(`/batches/${batchId}`).set("Cookie", planner).type("form").send({ intent: "release", planId });
     expect(released.status).toBe(302);
     const [after] = await db.select().from(t.stockPanels).where(eq(t.stockPanels.id, panel.id));
