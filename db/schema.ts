@@ -199,6 +199,8 @@ export const productParts = pgTable(
     quantity: integer("quantity").notNull().default(1),
     grainLocked: boolean("grain_locked").notNull().default(false),
     process: processEnum("process").notNull().default("saw"),
+    // Where the part stands in its product's bill, as the owner entered it (0 first).
+    position: integer("position").notNull().default(0),
   },
   (t) => [index("product_parts_product_idx").on(t.productId)],
 );

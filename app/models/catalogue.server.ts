@@ -149,12 +149,12 @@ export async function listProducts(shopId: string, query: ListQuery<ProductSort>
   return { rows, total: total.n };
 }
 
-/** A product of this shop with its parts (listed by name, then largest first), or null. */
+/** A product of this shop with its parts in the order the owner entered them, or null. */
 export async function getProduct(shopId: string, productId: string) {
   const db = getDb();
   const [product] = await db.select().from(products).where(and(eq(products.id, productId), eq(products.shopId, shopId)));
   if (!product) return null;
-  const parts = await db.select().from(productParts).where(eq(productParts.productId, product.id)).orderBy(asc(productParts.name), desc(productParts.lengthUm), desc(productParts.widthUm));
+  const parts = await db.select().from(productParts).where(eq(productParts.productId, product.id)).orderBy(asc(productParts.position), asc(productParts.name));
   return { ...product, parts };
 }
 
@@ -220,7 +220,7 @@ export async function saveProduct(shopId: string, productId: string | null, inpu
       await tx.delete(productParts).where(eq(productParts.productId, id));
     }
     const savedId = id;
-    await tx.insert(productParts).values(parts.map((part) => ({ ...part, productId: savedId })));
+    await tx.insert(productParts).values(parts.map((part, position) => ({ ...part, productId: savedId, position })));
     return id;
   });
 }

@@ -6,7 +6,7 @@ import { appServer } from "../support/app";
 import { createShop, signIn, type TestShop } from "../support/factories";
 import { getDb } from "~/db.server";
 import type { PartRow } from "~/lib/catalogue";
-import { saveProduct } from "~/models/catalogue.server";
+import { getProduct, saveProduct } from "~/models/catalogue.server";
 
 const server = await appServer();
 const db = getDb();
@@ -251,6 +251,23 @@ describe("the product editor", () => {
     expect(page.status).toBe(200);
     expect(page.text).toContain("Product created.");
     expect(page.text).toContain("23-5/8 in");
+  });
+
+  it("keeps the parts in the order the owner entered them, also after moving one", async () => {
+    const { shop, birch, owner } = await shopWithMaterials();
+    const entered = ["Sign face", "Stand", "Back brace"].map((name) => row(birch.id, { name }));
+    const res = await request(server).post("/catalogue/products/new").set("Cookie", owner).type("form").send(productForm(entered));
+    expect(res.status).toBe(302);
+    const id = res.headers.location.split("/").pop()!.split("?")[0];
+    const shownOrder = async () => (await getProduct(shop.id, id))!.parts.map((p) => p.name);
+    expect(await shownOrder()).toEqual(["Sign face", "Stand", "Back brace"]);
+    const page = await request(server).get(`/catalogue/products/${id}`).set("Cookie", owner);
+    expect(page.text.indexOf("Sign face")).toBeLessThan(page.text.indexOf("Stand"));
+    expect(page.text.indexOf("Stand")).toBeLessThan(page.text.indexOf("Back brace"));
+    // The brace moved to the top: saved in that order.
+    const moved = await request(server).post(`/catalogue/products/${id}`).set("Cookie", owner).type("form").send(productForm([entered[2], entered[0], entered[1]]));
+    expect(moved.status).toBe(200);
+    expect(await shownOrder()).toEqual(["Back brace", "Sign face", "Stand"]);
   });
 
   it("a bad part row saves nothing and answers with errors keyed by row and field, keeping everything typed", async () => {
