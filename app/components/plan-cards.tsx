@@ -25,7 +25,7 @@ export function PlanCard({ plan, batchId, currency, canWrite, chosen }: { plan: 
       </p>
       {active && (
         <p className="tabular-nums" role="status">
-          {((plan.progress?.elapsedMs ?? 0) / 1000).toFixed(1)} s of {plan.settings.timeLimitMs / 1000} s · best so far: {plan.progress?.bestSheets ?? "—"} panels
+          {((plan.progress?.elapsedMs ?? 0) / 1000).toFixed(1)} s of {plan.settings.timeLimitMs / 1000} s · best so far: {plan.progress?.bestSheets ?? "—"} panel{plan.progress?.bestSheets === 1 ? "" : "s"}
         </p>
       )}
       {plan.status === "done" && (

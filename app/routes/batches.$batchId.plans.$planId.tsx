@@ -43,7 +43,7 @@ export default function PlanView({ loaderData }: Route.ComponentProps) {
   return (
     <div className="space-y-6">
       <PageHeader eyebrow={`${batch.code} · ${batch.materialName}`} title={`Plan ${number}`}>
-        {metrics.sheets} panels · yield {(metrics.yield * 100).toFixed(1)} % · {metrics.setups} fence and stop settings · kerf {kerf} mm. Tap a part to see its orders.
+        {metrics.sheets} panel{metrics.sheets === 1 ? "" : "s"} · yield {(metrics.yield * 100).toFixed(1)} % · {metrics.setups} fence and stop settings · kerf {kerf} mm. Tap a part to see its orders.
       </PageHeader>
       {printable && (
         <p className="flex flex-wrap gap-3">
