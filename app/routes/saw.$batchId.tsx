@@ -250,7 +250,7 @@ function SetupRow({ setup, batchId, canWrite }: { setup: SetupView; batchId: str
           {setup.kind} at {setup.setting}
         </span>
         <span className="text-muted">
-          {setup.count} cut{setup.count === 1 ? "" : "s"} planned{ticked ? ` · ${setup.cut} cut` : ""}
+          {setup.count} cut{setup.count === 1 ? "" : "s"} planned{ticked ? ` · ${setup.cut} done` : ""}
         </span>
         {setup.outside && <span className="block font-medium text-bad">Outside the stop block's range: cut to a marked line, or break down on another tool.</span>}
       </span>

@@ -54,6 +54,7 @@ describe("the sawyer on a tablet beside the saw", () => {
       await page.locator(`li[data-setup="${i}"][data-ticked="true"]`).waitFor();
     }
     await page.getByText(`${total} of ${total} set-ups done`).waitFor();
+    expect(await page.locator('li[data-setup="0"]').innerText()).toMatch(/cuts? planned · \d+ done/); // the pieces the sawyer counted
     await page.reload();
     await page.getByText(`${total} of ${total} set-ups done`).waitFor(); // the ticks survived
 
