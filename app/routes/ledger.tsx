@@ -101,7 +101,7 @@ export default function Ledger({ loaderData }: Route.ComponentProps) {
               <tr>
                 <th className="px-3 py-2">Total</th>
                 {cells(summary.total).map((c, i) => (
-                  <td key={i} className="px-3 py-2 text-right tabular-nums">
+                  <td key={i} className="whitespace-nowrap px-3 py-2 text-right tabular-nums">
                     {c}
                   </td>
                 ))}
