@@ -8,7 +8,7 @@ type Point = { month: string; yield: number; scrapCostMinor: number; batches: nu
 export function LedgerChart({ trend, currency }: { trend: Point[]; currency: string }) {
   const [mounted, setMounted] = useState(false);
   useEffect(() => setMounted(true), []);
-  const data = trend.map((p) => ({ month: p.month, yieldPercent: Math.round(p.yield * 1000) / 10, scrapCost: p.scrapCostMinor / 100 }));
+  const data = trend.map((p) => ({ month: p.month, yieldPercent: Math.round(p.yield * 1000) / 10, scrapCost: p.scrapCostMinor }));
   if (trend.length === 0) return <p className="text-muted">No batches cut in the last twelve months.</p>;
   return (
     <div className="h-72 w-full" role="img" aria-label={`Yield and scrap cost per month: ${data.map((d) => `${d.month} ${d.yieldPercent} %`).join(", ")}`}>
@@ -18,9 +18,10 @@ export function LedgerChart({ trend, currency }: { trend: Point[]; currency: str
             <CartesianGrid stroke="#ddd5c6" strokeDasharray="3 3" />
             <XAxis dataKey="month" stroke="#5d6470" fontSize={12} />
             <YAxis yAxisId="yield" domain={[0, 100]} unit=" %" stroke="#2f6b4f" fontSize={12} />
-            <YAxis yAxisId="cost" orientation="right" stroke="#b8561d" fontSize={12} />
-            <Tooltip formatter={(value, name) => (name === "Scrap cost" ? formatMoney(Math.round(Number(value) * 100), currency) : `${value} %`)} />
-            <Legend />
+            <YAxis yAxisId="cost" orientation="right" stroke="#b8561d" fontSize={12} width={80} tickFormatter={(minor) => formatMoney(Number(minor), currency)} />
+            <Tooltip formatter={(value, name) => (name === "Scrap cost" ? formatMoney(Number(value), currency) : `${value} %`)} />
+            {/* Legend text in ink: the bar's pale fill is unreadable as text. */}
+            <Legend formatter={(value) => <span style={{ color: "#1f2329" }}>{value}</span>} />
             <Bar yAxisId="cost" dataKey="scrapCost" name="Scrap cost" fill="#f6e3d4" stroke="#b8561d" maxBarSize={48} isAnimationActive={false} />
             <Line yAxisId="yield" dataKey="yieldPercent" name="Yield" stroke="#2f6b4f" strokeWidth={2} dot isAnimationActive={false} />
           </ComposedChart>
