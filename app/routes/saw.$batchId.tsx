@@ -192,7 +192,8 @@ export default function FloorView({ loaderData, actionData }: Route.ComponentPro
           <input type="hidden" name="intent" value="close" />
           <ul className="space-y-3">
             {offcuts.map((o) => (
-              <li key={o.id} className="flex flex-wrap items-end gap-3 rounded-lg border border-line bg-card p-4" data-offcut={o.id}>
+              // On a phone: the tick on its own row, length and width side by side, the place below them.
+              <li key={o.id} className="grid grid-cols-2 items-end gap-3 rounded-lg border border-line bg-card p-4 sm:flex sm:flex-wrap [&>label:first-child]:col-span-2 [&>label:last-child]:col-span-2 [&>span]:col-span-2" data-offcut={o.id}>
                 {o.status === "expected" && canWrite ? (
                   <>
                     <label className="flex min-h-12 items-center gap-2 font-medium">
@@ -229,7 +230,7 @@ function MeasureField({ label, name, value, error, placeholder }: { label: strin
   return (
     <label className="space-y-1 text-sm font-medium">
       <span className="block">{label}</span>
-      <input name={name} defaultValue={value} placeholder={placeholder} className={`block min-h-12 w-40 rounded-md border bg-white px-3 text-base ${error ? "border-bad" : "border-line"}`} aria-invalid={error ? true : undefined} />
+      <input name={name} defaultValue={value} placeholder={placeholder} className={`block min-h-12 w-full rounded-md sm:w-40 border bg-white px-3 text-base ${error ? "border-bad" : "border-line"}`} aria-invalid={error ? true : undefined} />
       {error && <span className="block text-bad">{error}</span>}
     </label>
   );
