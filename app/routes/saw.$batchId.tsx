@@ -6,6 +6,7 @@ import { requirePermission } from "~/auth.server";
 import { BatchBadge } from "~/components/batch-badge";
 import { FormAlert, SubmitButton } from "~/components/forms";
 import { PageHeader } from "~/components/page-header";
+import { SawCaution } from "~/components/saw-caution";
 import { itemsOf, spoiledOrigins } from "~/lib/batch-parts";
 import { parseForm } from "~/lib/forms";
 import { can } from "~/lib/permissions";
@@ -125,9 +126,7 @@ export default function FloorView({ loaderData, actionData }: Route.ComponentPro
         <BatchBadge status={batch.status} />
       </div>
       {errors.form && <FormAlert>{errors.form}</FormAlert>}
-      <div className="rounded-lg border border-warn/40 bg-warn-soft p-4 text-sm text-warn" role="note">
-        Guard and riving knife on, push stick ready, stand out of the line of the blade. Crosscut against a stop block on the sled's fence, never against the rip fence. The saw maker's manual and your shop's rules come first.
-      </div>
+      <SawCaution />
 
       <section className="grid gap-4 md:grid-cols-2">
         <div className="rounded-lg border border-line bg-card p-4">

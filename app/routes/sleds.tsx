@@ -4,6 +4,7 @@ import type { Route } from "./+types/sleds";
 import { requirePermission } from "~/auth.server";
 import { Field, FormAlert, SelectField, SubmitButton } from "~/components/forms";
 import { PageHeader } from "~/components/page-header";
+import { SawCaution } from "~/components/saw-caution";
 import { parseForm, type FieldErrors } from "~/lib/forms";
 import { lengthSchema } from "~/lib/length-fields";
 import { can } from "~/lib/permissions";
@@ -174,6 +175,8 @@ export default function Sleds({ loaderData, actionData }: Route.ComponentProps) 
         The measured kerf of each saw (plans use the latest) and the squareness of each crosscut sled by the five-cut test. Checks older than {STALE_AFTER_DAYS} days or out of the shop's tolerance (
         {formatErrorRate(toleranceUmPerM, unit)}) are flagged, and the set-up sheet warns about them.
       </PageHeader>
+      {/* The kerf and five-cut tests are cuts at the saw too. */}
+      <SawCaution />
       {result && Object.keys(result.errors).length > 0 && <FormAlert>Some fields need another look.</FormAlert>}
       {result?.errors.form && <FormAlert>{result.errors.form}</FormAlert>}
 

@@ -33,6 +33,12 @@ describe("sleds & saws", () => {
     otherSledId = sled.id;
   });
 
+  it("shows the saw cautions, deferring to the saw maker's manual and the shop's rules", async () => {
+    const page = html(await request(server).get("/sleds").set("Cookie", sawyer));
+    expect(page).toContain("Guard and riving knife on");
+    expect(page).toContain("The saw maker's manual and your shop's rules come first.");
+  });
+
   it("adds a saw, and names what is missing", async () => {
     const bad = await post(sawyer, { intent: "add-saw", name: "  ", blade: "" });
     expect(bad.status).toBe(400);
