@@ -115,7 +115,8 @@ export function OrderLineFields({ index, products, currency, errors, values, onR
               ))}
             </datalist>
             <Error id={`${name("csvHeader")}-error`} message={err("csvHeader")} />
-            {preview && (
+            {/* The server's message for the same column is already shown just above. */}
+            {preview && preview !== err("csvHeader") && (
               <p className="text-sm text-muted" role="status">
                 {preview}
               </p>

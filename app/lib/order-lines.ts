@@ -71,6 +71,7 @@ export function checkLines(raw: Map<number, RawLine>, productIds: Set<string>): 
     else if (!productIds.has(l.productId)) errors[field(i, "product")] = "That product is not offered in this shop's catalogue (it may have been retired).";
 
     let texts = parseTypedTexts(l.texts);
+    let csvRefused = false;
     if (l.csv) {
       const text = l.csv.bytes.length > MAX_CSV_BYTES ? null : decodeUtf8(l.csv.bytes);
       if (l.csv.bytes.length > MAX_CSV_BYTES) errors[field(i, "csv")] = "The CSV file is larger than 1 MB.";
@@ -80,6 +81,7 @@ export function checkLines(raw: Map<number, RawLine>, productIds: Set<string>): 
         if (!parsed.ok) errors[field(i, parsed.field)] = parsed.error;
         else texts = parsed.texts;
       }
+      csvRefused = Boolean(errors[field(i, "csv")] || errors[field(i, "csvHeader")]);
     }
     if (texts.length > MAX_PERSONALISATION_ROWS) errors[field(i, "texts")] = `At most ${MAX_PERSONALISATION_ROWS} texts per line.`;
     const tooLong = texts.find((t) => t.length > MAX_TEXT_CHARS);
@@ -88,7 +90,8 @@ export function checkLines(raw: Map<number, RawLine>, productIds: Set<string>): 
     let quantity: number;
     if (l.followRows) {
       quantity = texts.length;
-      if (quantity === 0) errors[field(i, "quantity")] = "The quantity follows the texts, but there are none.";
+      // A refused CSV already says why there are no texts; a second message on the quantity only confuses.
+      if (quantity === 0 && !csvRefused) errors[field(i, "quantity")] = "The quantity follows the texts, but there are none.";
     } else {
       quantity = /^\d+$/.test(l.quantity) ? Number(l.quantity) : NaN;
       if (!Number.isInteger(quantity) || quantity < 1) errors[field(i, "quantity")] = "Enter a whole number of items, 1 or more.";

@@ -112,6 +112,7 @@ describe("creating orders", () => {
     expect(res.status).toBe(400);
     expect(res.text).toContain("line-0-csvHeader-error");
     expect(res.text).toContain("No column is headed &quot;Name&quot;");
+    expect(res.text).not.toContain("The quantity follows the texts, but there are none."); // the CSV is the one reason
   });
 
   it("refuses 2,001 rows, and saves nothing", async () => {
