@@ -98,7 +98,7 @@ export default function Rack({ loaderData, actionData }: Route.ComponentProps) {
                         <input type="hidden" name="intent" value="discard" />
                         <input type="hidden" name="offcutId" value={o.id} />
                         <button type="submit" className="min-h-11 rounded-md border border-bad/40 px-3 text-sm font-medium text-bad hover:bg-bad-soft">
-                          Scrapped
+                          Mark as scrapped
                         </button>
                       </Form>
                     </span>
