@@ -117,7 +117,7 @@ export async function action(args: Route.ActionArgs) {
       case "release": {
         const released = await releasePlan(user.shopId, batchId, input.planId);
         const batch = await getBatch(user.shopId, batchId);
-        const link = `${publicOrigin(args.request)}/saw?batch=${batchId}`;
+        const link = `${publicOrigin(args.request)}/saw/${batchId}`; // straight to this batch at the saw
         const failed: string[] = [];
         for (const sawyer of await sawyersOf(user.shopId)) {
           await sendMail({ to: sawyer.email, ...releaseEmail({ name: sawyer.name, code: batch!.code, material: batch!.materialName, sheets: released.sheets, setups: released.setups, link }) }).catch(() => failed.push(sawyer.email));

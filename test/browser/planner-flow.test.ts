@@ -64,7 +64,9 @@ describe("the planner in chromium, on a tablet", () => {
 
     await page.locator('[data-plan="1"]').getByRole("button", { name: "Release to the saw" }).click();
     await page.getByText("At the saw", { exact: true }).waitFor();
-    expect((await waitForMail(s.shop.users.sawyer.email)).subject).toContain("is ready for the saw");
+    const mail = await waitForMail(s.shop.users.sawyer.email);
+    expect(mail.subject).toContain("is ready for the saw");
+    expect(mail.text).toContain(`/saw/${new URL(page.url()).pathname.split("/").pop()}\n`); // the batch's own floor view, not the list
     expect(errors).toEqual([]);
   });
 });
