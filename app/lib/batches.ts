@@ -6,6 +6,8 @@ export function batchCode(number: number): string {
 /** How many of a proposal's lines, and of the finished batches, the batches page lists by name. */
 export const PROPOSAL_PREVIEW_LINES = 12;
 export const FINISHED_BATCHES_SHOWN = 20;
+/** How many of a batch's order lines its page lists before "Show all" (a busy batch has a hundred). */
+export const BATCH_LINES_SHOWN = 30;
 
 /**
  * What the batches page shows of a proposed batch: its counts, and only its first lines and recuts

@@ -229,12 +229,15 @@ export async function getBatch(shopId: string, batchId: string) {
   return { ...batch, code: batchCode(batch.number), lines };
 }
 
-/** Each line of the batch with each of its product's parts of the batch's material (a line whose product lost them meanwhile comes once, part columns null). */
-function contentsQuery(db: Db) {
+/**
+ * Each line of the batch with each of its product's parts of the batch's material (a line whose
+ * product lost them meanwhile comes once, part columns null). Without texts, for what only counts.
+ */
+function contentsQuery(db: Db, withTexts = true) {
   return db
     .select({
       ...lineColumns,
-      personalisation: orderLines.personalisation,
+      personalisation: withTexts ? orderLines.personalisation : sql<string[]>`'[]'::jsonb`,
       partName: productParts.name,
       lengthUm: productParts.lengthUm,
       widthUm: productParts.widthUm,
@@ -250,19 +253,25 @@ function contentsQuery(db: Db) {
     .leftJoin(productParts, and(eq(productParts.productId, products.id), eq(productParts.materialId, batchLines.materialId)))
     .where(eq(batchLines.batchId, sql.placeholder("batchId")))
     .orderBy(asc(orders.number), asc(products.name), asc(orderLines.id), asc(productParts.name))
-    .prepare("batch_contents");
+    .prepare(withTexts ? "batch_contents" : "batch_contents_counted");
 }
 
 function recutsQuery(db: Db) {
   return db.select().from(recutParts).where(eq(recutParts.batchId, sql.placeholder("batchId"))).orderBy(asc(recutParts.createdAt)).prepare("batch_recuts");
 }
 
-const poolContents = preparedOnce(contentsQuery);
+const poolContents = preparedOnce((db) => contentsQuery(db));
+const poolContentsWithoutTexts = preparedOnce((db) => contentsQuery(db, false));
 const poolRecuts = preparedOnce(recutsQuery);
 
-/** The batch's lines and, one row per part of each line, its sources for merging into the cut list; one read for both. */
-export async function batchContents(batchId: string, db?: Db): Promise<{ lines: BatchLine[]; sources: BatchSource[] }> {
-  const [rows, recuts] = await Promise.all([(db ? contentsQuery(db) : poolContents()).execute({ batchId }), (db ? recutsQuery(db) : poolRecuts()).execute({ batchId })]);
+/**
+ * The batch's lines and, one row per part of each line, its sources for merging into the cut list;
+ * one read for both. `withTexts: false` leaves the lines' personalisation out (recuts keep theirs):
+ * counting parts and blanks needs none, and a hundred lines' texts cost time to read.
+ */
+export async function batchContents(batchId: string, db?: Db, { withTexts = true } = {}): Promise<{ lines: BatchLine[]; sources: BatchSource[] }> {
+  const contents = db ? contentsQuery(db, withTexts) : withTexts ? poolContents() : poolContentsWithoutTexts();
+  const [rows, recuts] = await Promise.all([contents.execute({ batchId }), (db ? recutsQuery(db) : poolRecuts()).execute({ batchId })]);
   const lines: BatchLine[] = [];
   const sources: BatchSource[] = [];
   for (const row of rows) {
@@ -311,9 +320,13 @@ export async function batchSources(batchId: string, db?: Db): Promise<BatchSourc
   return (await batchContents(batchId, db)).sources;
 }
 
-/** What the batch page reads on every view, at once: the batch with its shop's settings, its lines and its sources. Null: not this shop's. */
+/**
+ * What the batch page reads on every view, at once: the batch with its shop's settings, its lines
+ * and its sources without the lines' texts (the page counts parts; a row's texts come from the
+ * origins API when opened). Null: not this shop's.
+ */
 export async function batchPage(shopId: string, batchId: string) {
-  const [[header], contents] = await Promise.all([batchWithShop().execute({ batchId, shopId }), batchContents(batchId)]);
+  const [[header], contents] = await Promise.all([batchWithShop().execute({ batchId, shopId }), batchContents(batchId, undefined, { withTexts: false })]);
   if (!header) return null;
   const { shop, ...batch } = header;
   return { batch: { ...batch, code: batchCode(batch.number) }, shop, ...contents };

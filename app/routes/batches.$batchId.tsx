@@ -9,6 +9,7 @@ import { FormAlert, SelectField, SubmitButton } from "~/components/forms";
 import { PageHeader } from "~/components/page-header";
 import { PlanCompare, PlanCard } from "~/components/plan-cards";
 import { useRouterClicks } from "~/components/router-clicks";
+import { BATCH_LINES_SHOWN } from "~/lib/batches";
 import { formatDate } from "~/lib/dates";
 import { releaseEmail } from "~/lib/emails";
 import { parseForm } from "~/lib/forms";
@@ -31,6 +32,8 @@ export async function loader(args: Route.LoaderArgs) {
   const [page, plans] = await timed("queries", () => Promise.all([batchPage(user.shopId, batchId), listPlans(user.shopId, batchId)]));
   if (!page) throw data("No such batch in this shop.", { status: 404 });
   const { batch, shop, lines, sources } = page;
+  // The first lines by order number, unless all were asked for: a hundred lines are the page's biggest part.
+  const allLines = new URL(args.request.url).searchParams.get("lines") === "all";
   const editable = can(user.role, "batches:write") && (batch.status === "open" || batch.status === "planned");
   const cutList = await timed("merge", () => cutListOf(sources, shop));
   const unit = shop.displayUnit;
@@ -45,7 +48,8 @@ export async function loader(args: Route.LoaderArgs) {
   }));
   return {
     batch: { id: batch.id, code: batch.code, status: batch.status, dueBy: batch.dueBy, materialName: batch.materialName, chosenPlanId: batch.chosenPlanId },
-    lines,
+    lines: allLines ? lines : lines.slice(0, BATCH_LINES_SHOWN),
+    lineCount: lines.length,
     parts,
     laser: { items: cutList.laser.reduce((n, p) => n + p.quantity, 0), blanks: cutList.blanks.length, bed: formatSize(shop.laserBedLengthUm, shop.laserBedWidthUm, unit), unplaced: cutList.laserUnplaced },
     plans,
@@ -130,7 +134,8 @@ export async function action(args: Route.ActionArgs) {
     if (error instanceof BatchStateError || error instanceof PlanStateError) return data({ errors: { form: error.message }, notice: null }, { status: 409 });
     throw error;
   }
-  return redirect(`/batches/${batchId}`);
+  // Back to the page as it was asked for (all lines or the first ones).
+  return redirect(`/batches/${batchId}${new URL(args.request.url).searchParams.get("lines") === "all" ? "?lines=all" : ""}`);
 }
 
 const fetchFloor = async (url: string): Promise<{ setups: number; ticks: unknown[]; recuts: unknown[] }> => {
@@ -181,7 +186,7 @@ function OriginList({ url }: { url: string }) {
 }
 
 export default function BatchPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { batch, lines, parts, laser, changes, unit, currency } = loaderData;
+  const { batch, lines, lineCount, parts, laser, changes, unit, currency } = loaderData;
   const errors: Record<string, string> = actionData?.errors ?? {};
   const editable = changes !== null;
   // Poll while a plan is queued or running; otherwise the list stays as loaded.
@@ -204,7 +209,7 @@ export default function BatchPage({ loaderData, actionData }: Route.ComponentPro
     <div className="space-y-8">
       <div className="flex flex-wrap items-start justify-between gap-4">
         <PageHeader eyebrow={`Batch · ${batch.materialName}`} title={batch.code}>
-          Due by {formatDate(batch.dueBy)} · {lines.length} order line{lines.length === 1 ? "" : "s"}
+          Due by {formatDate(batch.dueBy)} · {lineCount} order line{lineCount === 1 ? "" : "s"}
         </PageHeader>
         <BatchBadge status={batch.status} />
       </div>
@@ -295,6 +300,12 @@ export default function BatchPage({ loaderData, actionData }: Route.ComponentPro
           </Form>
         ) : (
           <LineList lines={lines} editable={false} onClick={routerClicks} />
+        )}
+        {lineCount > lines.length && (
+          <p className="text-sm text-muted">
+            {`The first ${lines.length} of ${lineCount} lines, by order number. `}
+            <Link to="?lines=all" className="font-medium text-edge underline">{`Show all ${lineCount} lines`}</Link>
+          </p>
         )}
       </section>
 

@@ -14,7 +14,6 @@ import { formatMoney } from "~/lib/money";
 import { ORDER_STATUSES, STATUS_LABELS } from "~/lib/order-status";
 import { can } from "~/lib/permissions";
 import { listOrders, orderListQuery, type OrderListRow, type OrderSort } from "~/models/orders.server";
-import { getShop } from "~/models/shops.server";
 import { timed } from "~/timing.server";
 
 // The first page comes from the loader (usable before scripts run); swr then keeps it fresh from /api/orders.
@@ -22,8 +21,8 @@ export async function loader(args: Route.LoaderArgs) {
   const user = requirePermission(args, "orders:read");
   const query = orderListQuery(args.request);
   const seesDeposits = can(user.role, "deposits:read");
-  const [{ rows, total }, shop] = await timed("queries", () => Promise.all([listOrders(user.shopId, query, { deposits: seesDeposits }), getShop(user.shopId)]));
-  return { page: { rows, total, query }, currency: shop.currency, canWrite: can(user.role, "orders:write"), seesDeposits };
+  const { rows, total, currency } = await timed("queries", () => listOrders(user.shopId, query, { deposits: seesDeposits }));
+  return { page: { rows, total, query }, currency, canWrite: can(user.role, "orders:write"), seesDeposits };
 }
 
 type Page = { rows: OrderListRow[]; total: number; query: ListQuery<OrderSort> };

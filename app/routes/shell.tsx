@@ -1,7 +1,8 @@
-import { Form, isRouteErrorResponse, Link, NavLink, Outlet, useRouteError, useRouteLoaderData } from "react-router";
+import { Form, isRouteErrorResponse, Link, Outlet, useLocation, useRouteError, useRouteLoaderData } from "react-router";
 import type { Route } from "./+types/shell";
 import { requirePermission } from "~/auth.server";
 import { areasFor, type Area } from "~/components/areas";
+import { useRouterClicks } from "~/components/router-clicks";
 import { Wordmark } from "~/components/wordmark";
 import { can } from "~/lib/permissions";
 import { outboxEnabled } from "~/outbox.server";
@@ -14,28 +15,36 @@ export function loader(args: Route.LoaderArgs) {
   };
 }
 
+/**
+ * The areas as plain anchors (a NavLink costs the server render several hooks, and every page draws
+ * this list twice, rail and phone menu): one location read marks the current area, one click
+ * handler sends plain clicks through the router.
+ */
 function NavItems({ areas, outbox, onNavigate }: { areas: Area[]; outbox: boolean; onNavigate?: () => void }) {
+  const { pathname } = useLocation();
+  const routerClicks = useRouterClicks(onNavigate);
   const items = [...areas.map((a) => ({ path: a.path, label: a.label, note: a.forWhom })), ...(outbox ? [{ path: "/dev/outbox", label: "Outbox", note: "Dev" }] : [])];
   return (
-    <ul className="space-y-0.5">
-      {items.map((item) => (
-        <li key={item.path}>
-          <NavLink
-            to={item.path}
-            // An area with another area under it ("/ledger", "/ledger/deposits") is lit only at its own address.
-            end={items.some((other) => other.path.startsWith(`${item.path}/`))}
-            onClick={onNavigate}
-            className={({ isActive }) =>
-              `flex items-baseline justify-between rounded-md px-3 py-2.5 text-[0.95rem] ${
-                isActive ? "bg-rail-hover font-semibold text-white shadow-[inset_3px_0_0_var(--color-edge)]" : "text-rail-ink hover:bg-rail-hover"
-              }`
-            }
-          >
-            <span>{item.label}</span>
-            <span className="text-xs text-rail-ink/60">{item.note}</span>
-          </NavLink>
-        </li>
-      ))}
+    <ul className="space-y-0.5" onClick={routerClicks}>
+      {items.map((item) => {
+        // An area with another area under it ("/ledger", "/ledger/deposits") is lit only at its own address.
+        const end = items.some((other) => other.path.startsWith(`${item.path}/`));
+        const active = pathname === item.path || (!end && item.path !== "/" && pathname.startsWith(`${item.path}/`));
+        return (
+          <li key={item.path}>
+            <a
+              href={item.path}
+              aria-current={active ? "page" : undefined}
+              className={`flex items-baseline justify-between rounded-md px-3 py-2.5 text-[0.95rem] ${
+                active ? "bg-rail-hover font-semibold text-white shadow-[inset_3px_0_0_var(--color-edge)]" : "text-rail-ink hover:bg-rail-hover"
+              }`}
+            >
+              <span>{item.label}</span>
+              <span className="text-xs text-rail-ink/60">{item.note}</span>
+            </a>
+          </li>
+        );
+      })}
     </ul>
   );
 }

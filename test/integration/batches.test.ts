@@ -10,7 +10,7 @@ import { getDb } from "~/db.server";
 import { startPlanRunner, stopPlanRunner } from "~/jobs/plan-runner.server";
 import { batchSources, createBatches, getBatch, holdLines, moveLines, proposalPreviews, proposeBatches } from "~/models/batches.server";
 import { mergeBatchParts } from "~/lib/batch-parts";
-import { proposalPreview } from "~/lib/batches";
+import { BATCH_LINES_SHOWN, proposalPreview } from "~/lib/batches";
 import { PlanStateError, releasePlan, requestPlan } from "~/models/plans.server";
 import { createOrder } from "~/models/orders.server";
 
@@ -239,6 +239,35 @@ describe("the batches page at a busy shop's scale", () => {
     expect(created.status).toBe(302);
     const six = await db.select().from(t.batches).where(and(eq(t.batches.shopId, s.shop.id), eq(t.batches.materialId, s.birch6.id)));
     expect(await db.$count(t.batchLines, eq(t.batchLines.batchId, six[0].id))).toBe(18);
+  });
+
+  it("the batch page lists its first lines and the rest on asking; holding from the full list comes back to it", async () => {
+    const s = await scenario();
+    const [sign] = await db.select().from(t.products).where(and(eq(t.products.shopId, s.shop.id), eq(t.products.name, "Welcome sign")));
+    const [customer] = await db.select().from(t.customers).where(eq(t.customers.shopId, s.shop.id)).limit(1);
+    for (let i = 0; i < BATCH_LINES_SHOWN; i++) {
+      const o = await createOrder(s.shop.id, { customerId: customer.id, eventDate: "2027-01-30", dueDate: "2027-01-11", notes: "" }, [{ productId: sign.id, quantity: 1, personalisation: [], notes: "", files: [] }]);
+      await db.update(t.orders).set({ status: "confirmed" }).where(eq(t.orders.id, o.id));
+    }
+    const [six] = await createBatches(s.shop.id, "2027-01-15", [s.birch6.id]);
+    const lines = (await getBatch(s.shop.id, six))!.lines;
+    const total = BATCH_LINES_SHOWN + 3;
+    expect(lines).toHaveLength(total);
+    const planner = await signIn(server, s.shop.users.planner);
+    const first = await request(server).get(`/batches/${six}`).set("Cookie", planner);
+    expect(first.text.match(/name="lineId"/g)).toHaveLength(BATCH_LINES_SHOWN);
+    expect(visible(first.text)).toContain(`${total} order lines`);
+    expect(visible(first.text)).toContain(`The first ${BATCH_LINES_SHOWN} of ${total} lines, by order number.`);
+    expect(first.text).toContain(`href="/batches/${six}?lines=all" data-discover="true">Show all ${total} lines</a>`);
+    const all = await request(server).get(`/batches/${six}?lines=all`).set("Cookie", planner);
+    expect(all.text.match(/name="lineId"/g)).toHaveLength(total);
+    expect(all.text).toContain(`value="${lines.at(-1)!.lineId}"`);
+    expect(visible(all.text)).not.toContain("Show all");
+
+    const held = await request(server).post(`/batches/${six}?lines=all`).set("Cookie", planner).type("form").send({ intent: "hold-line", lineId: lines.at(-1)!.lineId });
+    expect(held.status).toBe(302);
+    expect(held.headers.location).toBe(`/batches/${six}?lines=all`);
+    expect((await getBatch(s.shop.id, six))!.lines).toHaveLength(total - 1);
   });
 });
 
