@@ -271,7 +271,10 @@ const poolRecuts = preparedOnce(recutsQuery);
  */
 export async function batchContents(batchId: string, db?: Db, { withTexts = true } = {}): Promise<{ lines: BatchLine[]; sources: BatchSource[] }> {
   const contents = db ? contentsQuery(db, withTexts) : withTexts ? poolContents() : poolContentsWithoutTexts();
-  const [rows, recuts] = await Promise.all([contents.execute({ batchId }), (db ? recutsQuery(db) : poolRecuts()).execute({ batchId })]);
+  // One after the other on purpose: the plan runner's first reads after a database restart must not
+  // take a second pooled connection that has not yet noticed the restart (plan-faults.test.ts).
+  const rows = await contents.execute({ batchId });
+  const recuts = await (db ? recutsQuery(db) : poolRecuts()).execute({ batchId });
   const lines: BatchLine[] = [];
   const sources: BatchSource[] = [];
   for (const row of rows) {
