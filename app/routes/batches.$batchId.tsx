@@ -235,20 +235,21 @@ export default function BatchPage({ loaderData, actionData }: Route.ComponentPro
             <table className="w-full min-w-[36rem] text-left text-sm [&_td]:px-4 [&_td]:py-3 [&_th]:px-4 [&_th]:py-3">
               <thead className="border-b border-line text-xs uppercase tracking-wider text-muted">
                 <tr>
+                  {/* The count next to the name: on a phone the table scrolls sideways and the end is out of view. */}
                   <th>Part</th>
+                  <th className="text-right">Qty</th>
                   <th>Finished size</th>
                   <th>Grain</th>
-                  <th className="text-right">Qty</th>
                   <th>For</th>
                 </tr>
               </thead>
-              <tbody className="divide-y divide-line [&_td:nth-child(1)]:font-medium [&_td:nth-child(2)]:tabular-nums [&_td:nth-child(4)]:text-right [&_td:nth-child(4)]:font-semibold [&_td:nth-child(4)]:tabular-nums">
+              <tbody className="divide-y divide-line [&_td:nth-child(1)]:font-medium [&_td:nth-child(2)]:text-right [&_td:nth-child(2)]:font-semibold [&_td:nth-child(2)]:tabular-nums [&_td:nth-child(3)]:tabular-nums">
                 {parts.map((p) => (
                   <tr key={p.key} data-part={p.key}>
                     <td>{p.name}</td>
+                    <td>{p.quantity}</td>
                     <td>{p.size}</td>
                     <td>{p.grainLocked ? "along the length" : "free"}</td>
-                    <td>{p.quantity}</td>
                     <td>
                       <PartOrigins batchId={batch.id} part={p} />
                     </td>
@@ -257,9 +258,9 @@ export default function BatchPage({ loaderData, actionData }: Route.ComponentPro
                 {laser.blanks > 0 && (
                   <tr data-part="laser-blank">
                     <td>Laser blank</td>
+                    <td>{laser.blanks}</td>
                     <td>{laser.bed}</td>
                     <td>—</td>
-                    <td>{laser.blanks}</td>
                     <td className="text-muted">{laser.items} laser-cut items</td>
                   </tr>
                 )}
