@@ -6,9 +6,9 @@ import { and, eq, inArray, isNull, notInArray, or, sql } from "drizzle-orm";
 import { Worker } from "node:worker_threads";
 import { batches, plans } from "../../db/schema";
 import { getDb, isDatabaseUnavailable } from "~/db.server";
-import { validatePlan } from "~/lib/packing";
 import { checkJobLimits } from "~/lib/packing-limits";
 import type { Plan } from "~/lib/packing/types";
+import type { ValidationResult } from "~/lib/packing";
 import { getShop } from "~/models/shops.server";
 import { buildPackingJob } from "~/models/plan-job.server";
 import type { PlanResult } from "~/models/plans.server";
@@ -113,11 +113,8 @@ async function planAndSave(plan: typeof plans.$inferSelect): Promise<void> {
     else if (built.job.parts.length === 0) outcome = { kind: "failed", reason: "The batch has no parts to cut." };
     else if (built.job.stock.length === 0) outcome = { kind: "failed", reason: "The material has no stock panels: add its sheet sizes in the catalogue first." };
     else {
+      // The worker also runs the validator on its plan (see pack-worker.ts); a plan it rejects is never saved.
       outcome = await runInWorker(planId, built.job);
-      if (outcome.kind === "done") {
-        const check = validatePlan(built.job, outcome.plan);
-        if (!check.ok) outcome = { kind: "failed", reason: `The engine's plan did not pass the validator: ${check.errors.slice(0, 3).join("; ")}` };
-      }
     }
   } catch (error) {
     const reason = isDatabaseUnavailable(error) ? "The database was away while the plan was being prepared. Run the plan again." : error instanceof Error ? error.message : String(error);
@@ -174,8 +171,9 @@ function runInWorker(planId: string, job: import("~/lib/packing/types").Job): Pr
         done({ kind: "cancelled" });
       }
     }, PROGRESS_EVERY_MS);
-    worker.on("message", (message: { type: "progress"; bestSheets: number } | { type: "done"; plan: Plan }) => {
+    worker.on("message", (message: { type: "progress"; bestSheets: number } | { type: "done"; plan: Plan; check: ValidationResult }) => {
       if (message.type === "progress") bestSheets = message.bestSheets;
+      else if (!message.check.ok) done({ kind: "failed", reason: `The engine's plan did not pass the validator: ${message.check.errors.slice(0, 3).join("; ")}` });
       else done({ kind: "done", plan: message.plan });
     });
     worker.on("error", (error) => done({ kind: "failed", reason: `The engine stopped with an error: ${error.message}` }));
