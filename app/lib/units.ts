@@ -33,6 +33,8 @@ function inchAmount(text: string): number | null {
 export function parseLength(input: string, defaultUnit: DisplayUnit = "mm"): ParsedLength {
   const text = input.trim().replace(/[″”]/g, '"').replace(/[′’]/g, "'").replace(/,/g, ".");
   if (text === "") return { ok: false, error: "is empty" };
+  // Readable, just not a length: say so rather than "not a length we can read".
+  if (/^-\s*\d/.test(text)) return { ok: false, error: `"${input}" is below zero; a length cannot be negative` };
 
   const metric = /^(\d+(?:\.\d+)?)\s*(mm|cm|m)?$/i.exec(text);
   if (metric && (metric[2] || defaultUnit === "mm")) {

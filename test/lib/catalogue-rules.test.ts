@@ -23,7 +23,7 @@ describe("part rows", () => {
       rowErrors: {
         b: {
           name: "Name the part.",
-          width: expect.stringContaining("is not a length we can read"),
+          width: expect.stringContaining("a length cannot be negative"),
           materialId: "Choose one of the shop's materials.",
           quantity: "The quantity must be between 1 and 999.",
           process: "Choose sawn or laser-cut.",

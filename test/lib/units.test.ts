@@ -23,6 +23,8 @@ describe("parseLength", () => {
   it("says what it could not read", () => {
     expect(parseLength("")).toEqual({ ok: false, error: "is empty" });
     expect(parseLength("0 mm")).toEqual({ ok: false, error: "must be more than zero" });
+    expect(parseLength("-3")).toEqual({ ok: false, error: '"-3" is below zero; a length cannot be negative' });
+    expect(parseLength("- 1/8 in")).toEqual({ ok: false, error: '"- 1/8 in" is below zero; a length cannot be negative' });
     expect(parseLength("six feet").ok).toBe(false);
     expect(parseLength("5/0 in").ok).toBe(false);
     expect(parseLength("-3 mm").ok).toBe(false);
