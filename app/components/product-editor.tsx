@@ -84,11 +84,9 @@ function Editor({ productId, values, currency, materials, parts: ctx, retiredAt,
     const hidden = event.currentTarget.elements.namedItem("parts") as HTMLInputElement;
     hidden.value = JSON.stringify(latest);
     setRows(latest);
-    const check = validatePartRows(latest, ctx);
-    if (!check.ok) {
-      event.preventDefault();
-      setShowAll(true);
-    }
+    // Bad rows are marked at once, but the form still goes: the server then names the name, price and
+    // lead time too, instead of those surfacing only after the parts are right.
+    if (!validatePartRows(latest, ctx).ok) setShowAll(true);
   }
 
   const problems = Object.entries(visible).flatMap(([key, fields]) => {

@@ -147,6 +147,19 @@ describe("the catalogue in chromium", () => {
 
   // A slow tablet (the CPU slowed six times) and a typist who never waits for an editor to open: the
   // grid used to lose the first keys typed after Tab or after "Add part".
+  it("an empty new product is told about its name, its price and its parts at once", async () => {
+    const context = await browser.newContext({ viewport: VIEWPORTS.phone });
+    const page = await context.newPage();
+    await signInAs(page, app.url, shop.users.owner);
+    await page.goto(`${app.url}/catalogue/products/new`, { waitUntil: "networkidle" });
+    await page.locator(".ag-root").waitFor();
+    await page.getByRole("button", { name: "Create product" }).click();
+    await page.getByText("Add at least one part.").waitFor();
+    await expect.poll(() => page.getByLabel("Name").getAttribute("aria-invalid")).toBe("true");
+    expect(await page.getByLabel("Price (EUR)").getAttribute("aria-invalid")).toBe("true");
+    await context.close();
+  });
+
   it("keeps every key of a fast typist on a slow tablet", async () => {
     const productName = `Place card set ${Math.random().toString(36).slice(2, 7)}`;
     const context = await browser.newContext({ viewport: VIEWPORTS.tablet });
