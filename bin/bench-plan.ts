@@ -12,6 +12,7 @@ import { cpus, loadavg } from "node:os";
 import * as t from "../db/schema";
 import { createShop, signIn } from "../test/support/factories";
 import { appServer } from "../test/support/app";
+import { ACCEPT_ENCODING, quantile, serverTimingPhases, type Phases } from "../test/support/latency";
 import { startApp } from "../test/support/server";
 import { getDb } from "~/db.server";
 import { createBatches } from "~/models/batches.server";
@@ -59,15 +60,6 @@ async function seedShop() {
 
 type Result = { route: string; requests: number; p50: number; p95: number; p99: number; rps: number; non2xx: number; errors: number };
 
-// What a browser sends: pages are compressed on the way out, and that work is part of the latency.
-const ACCEPT_ENCODING = "gzip, deflate, br";
-
-/** The q-quantile by nearest rank over every recorded response (autocannon itself reports p90, p97.5, p99, but no p95). */
-function quantile(sorted: number[], q: number): number {
-  if (!sorted.length) return NaN;
-  return sorted[Math.min(sorted.length - 1, Math.max(0, Math.ceil(q * sorted.length) - 1))];
-}
-
 const round = (ms: number) => Math.round(ms * 10) / 10;
 
 function load(url: string, cookie: string, paths: string[], seconds: number, pace: Pace): Promise<Result[]> {
@@ -112,27 +104,11 @@ function load(url: string, cookie: string, paths: string[], seconds: number, pac
   );
 }
 
-type Breakdown = { route: string; phases: Map<string, number>; client: number; kB: number };
+type Breakdown = Phases & { route: string };
 
-/** One request at a time, nothing else running: the median of each Server-Timing phase and of the whole answer. */
-async function breakdown(url: string, cookie: string, path: string, samples = 40): Promise<Breakdown> {
-  const phases = new Map<string, number[]>();
-  const client: number[] = [];
-  let bytes = 0;
-  for (let i = 0; i < samples + 5; i++) {
-    const started = performance.now();
-    const res = await fetch(`${url}${path}`, { headers: { cookie, "accept-encoding": ACCEPT_ENCODING } });
-    const body = await res.arrayBuffer();
-    if (i < 5) continue; // warm-up
-    client.push(performance.now() - started);
-    bytes = body.byteLength;
-    for (const entry of (res.headers.get("server-timing") ?? "").split(",")) {
-      const match = /^\s*([\w-]+);dur=([\d.]+)/.exec(entry);
-      if (match) phases.set(match[1], [...(phases.get(match[1]) ?? []), Number(match[2])]);
-    }
-  }
-  const median = (xs: number[]) => quantile([...xs].sort((a, b) => a - b), 0.5);
-  return { route: path.replace(/[0-9a-f-]{36}/, ":id"), phases: new Map([...phases].map(([k, xs]) => [k, median(xs)])), client: median(client), kB: bytes / 1000 };
+/** One request at a time before the load: the median of 40 (after 5 not counted). */
+async function breakdown(url: string, cookie: string, path: string): Promise<Breakdown> {
+  return { route: path.replace(/[0-9a-f-]{36}/, ":id"), ...(await serverTimingPhases(`${url}${path}`, cookie, { samples: 40, warmUp: 5 })) };
 }
 
 const loadBefore = loadavg();

@@ -15,6 +15,7 @@ import { sql } from "drizzle-orm";
 import { generateIdFromEntropySize } from "lucia";
 import * as t from "../db/schema";
 import { createShop, TEST_PASSWORD } from "../test/support/factories";
+import { ACCEPT_ENCODING, quantile, serverTimingPhases, type Phases } from "../test/support/latency";
 import { startApp } from "../test/support/server";
 import { getDb } from "~/db.server";
 import type { Role } from "~/lib/permissions";
@@ -138,7 +139,7 @@ function drive(url: string, options: { connections: number; rate?: number; next:
                 path: route.paths(),
                 headers: {
                   cookie: options.cookieFor(route),
-                  "accept-encoding": "gzip, deflate, br",
+                  "accept-encoding": ACCEPT_ENCODING,
                   ...(route.method === "POST" ? { "content-type": "application/x-www-form-urlencoded", origin: url } : {}),
                 },
                 ...(route.body ? { body: route.body() } : {}),
@@ -235,31 +236,12 @@ async function rated(url: string, routes: Route[], cookies: Record<Role, string[
   return { byRoute, errors: ends.reduce((n, e) => n + e.errors, 0), timeouts: ends.reduce((n, e) => n + e.timeouts, 0), seconds: SECONDS };
 }
 
-type Breakdown = { route: Route; phases: Map<string, number>; client: number; kB: number };
+type Breakdown = Phases & { route: Route };
 
-/** One request at a time, nothing else running: the median of each Server-Timing phase and of the whole answer. */
-async function breakdown(url: string, route: Route, cookie: string, samples = 15): Promise<Breakdown> {
-  const phases = new Map<string, number[]>();
-  const client: number[] = [];
-  let bytes = 0;
-  for (let k = 0; k < samples + 3; k++) {
-    const started = performance.now();
-    const res = await fetch(`${url}${route.paths()}`, { headers: { cookie, "accept-encoding": "gzip, deflate, br" } });
-    const body = await res.arrayBuffer();
-    if (k < 3) continue; // warm-up
-    client.push(performance.now() - started);
-    bytes = body.byteLength;
-    for (const entry of (res.headers.get("server-timing") ?? "").split(",")) {
-      const match = /^\s*([\w-]+);dur=([\d.]+)/.exec(entry);
-      if (match) phases.set(match[1], [...(phases.get(match[1]) ?? []), Number(match[2])]);
-    }
-  }
-  const median = (xs: number[]) => quantile([...xs].sort((a, b) => a - b), 0.5);
-  return { route, phases: new Map([...phases].map(([name, xs]) => [name, median(xs)])), client: median(client), kB: bytes / 1000 };
+/** One request at a time, nothing else running: the median of 15 (after 3 not counted). */
+async function breakdown(url: string, route: Route, cookie: string): Promise<Breakdown> {
+  return { route, ...(await serverTimingPhases(`${url}${route.paths()}`, cookie, { samples: 15, warmUp: 3 })) };
 }
-
-/** The q-quantile by nearest rank (autocannon reports p97.5 and p99 but no p95). */
-const quantile = (sorted: number[], q: number) => (sorted.length ? sorted[Math.min(sorted.length - 1, Math.max(0, Math.ceil(q * sorted.length) - 1))] : NaN);
 
 const loadBefore = loadavg();
 const seedStarted = performance.now();
