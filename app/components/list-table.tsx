@@ -110,3 +110,20 @@ export function ListSearch({ label, placeholder, children }: { label: string; pl
     </Form>
   );
 }
+
+/** One of a list's filters, sent with its search form; the empty choice means any. */
+export function ListFilter({ label, name, value, anyLabel, options }: { label: string; name: string; value: string | undefined; anyLabel: string; options: { value: string; label: string }[] }) {
+  return (
+    <label className="space-y-1 text-sm font-medium">
+      <span className="block">{label}</span>
+      <select name={name} defaultValue={value ?? ""} className="block min-h-11 w-full rounded-md border border-line bg-white px-3 py-2.5 text-base">
+        <option value="">{anyLabel}</option>
+        {options.map((o) => (
+          <option key={o.value} value={o.value}>
+            {o.label}
+          </option>
+        ))}
+      </select>
+    </label>
+  );
+}

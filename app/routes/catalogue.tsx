@@ -2,7 +2,7 @@ import { Link, useSearchParams } from "react-router";
 import type { Route } from "./+types/catalogue";
 import { hasPermission, requirePermission } from "~/auth.server";
 import { FormAlert } from "~/components/forms";
-import { ListSearch, ListTable, type Column } from "~/components/list-table";
+import { ListFilter, ListSearch, ListTable, type Column } from "~/components/list-table";
 import { PageHeader } from "~/components/page-header";
 import { parseListQuery } from "~/lib/listing";
 import { formatMoney } from "~/lib/money";
@@ -63,25 +63,8 @@ export default function Catalogue({ loaderData }: Route.ComponentProps) {
         </Link>
       </div>
       <ListSearch label="Search products" placeholder="Name, e.g. table number">
-        <label className="space-y-1 text-sm font-medium">
-          <span>Material</span>
-          <select name="material" defaultValue={query.filters.material ?? ""} className="block min-h-11 w-full rounded-md border border-line bg-white px-3 py-2.5 text-base">
-            <option value="">Any material</option>
-            {materials.map((m) => (
-              <option key={m.id} value={m.id}>
-                {m.name}
-              </option>
-            ))}
-          </select>
-        </label>
-        <label className="space-y-1 text-sm font-medium">
-          <span>Show</span>
-          <select name="show" defaultValue={query.filters.show ?? ""} className="block min-h-11 w-full rounded-md border border-line bg-white px-3 py-2.5 text-base">
-            <option value="">Offered products</option>
-            <option value="retired">Retired products</option>
-            <option value="all">All products</option>
-          </select>
-        </label>
+        <ListFilter label="Material" name="material" value={query.filters.material} anyLabel="Any material" options={materials.map((m) => ({ value: m.id, label: m.name }))} />
+        <ListFilter label="Show" name="show" value={query.filters.show} anyLabel="Offered products" options={[{ value: "retired", label: "Retired products" }, { value: "all", label: "All products" }]} />
       </ListSearch>
       <ListTable
         rows={rows}

@@ -3,7 +3,7 @@ import { Link, useSearchParams } from "react-router";
 import useSWR from "swr";
 import type { Route } from "./+types/orders";
 import { requirePermission } from "~/auth.server";
-import { ListSearch, ListTable, type Column } from "~/components/list-table";
+import { ListFilter, ListSearch, ListTable, type Column } from "~/components/list-table";
 import { PageHeader } from "~/components/page-header";
 import { DepositBadge } from "~/components/deposit-panel";
 import { StatusBadge } from "~/components/status-badge";
@@ -65,29 +65,9 @@ export default function Orders({ loaderData }: Route.ComponentProps) {
         )}
       </div>
       <ListSearch label="Search by customer or order number" placeholder="e.g. Ardent or 1001">
-        <label className="space-y-1 text-sm font-medium">
-          <span className="block">Status</span>
-          <select name="status" defaultValue={params.get("status") ?? ""} className="block min-h-11 rounded-md border border-line bg-white px-3">
-            <option value="">Any</option>
-            {ORDER_STATUSES.map((s) => (
-              <option key={s} value={s}>
-                {STATUS_LABELS[s]}
-              </option>
-            ))}
-          </select>
-        </label>
+        <ListFilter label="Status" name="status" value={params.get("status") ?? undefined} anyLabel="Any" options={ORDER_STATUSES.map((s) => ({ value: s, label: STATUS_LABELS[s] }))} />
         {seesDeposits && (
-          <label className="space-y-1 text-sm font-medium">
-            <span className="block">Deposit</span>
-            <select name="deposit" defaultValue={params.get("deposit") ?? ""} className="block min-h-11 rounded-md border border-line bg-white px-3">
-              <option value="">Any</option>
-              {DEPOSIT_FILTERS.map((d) => (
-                <option key={d} value={d}>
-                  {DEPOSIT_FILTER_LABELS[d]}
-                </option>
-              ))}
-            </select>
-          </label>
+          <ListFilter label="Deposit" name="deposit" value={params.get("deposit") ?? undefined} anyLabel="Any" options={DEPOSIT_FILTERS.map((d) => ({ value: d, label: DEPOSIT_FILTER_LABELS[d] }))} />
         )}
       </ListSearch>
       {error && <p className="text-sm text-bad">{error.message} Showing the last list loaded.</p>}
