@@ -1,5 +1,6 @@
 import { Form } from "react-router";
 import { SubmitButton } from "./forms";
+import { formatDay } from "~/lib/dates";
 import { DEPOSIT_FILTER_LABELS, DEPOSIT_STATUS_LABELS, unchargeableDeposit, type DepositStatus } from "~/lib/deposits";
 import { formatMoney } from "~/lib/money";
 
@@ -20,7 +21,6 @@ const TONE: Record<DepositStatus, string> = {
   refunded: "bg-line/60 text-ink",
 };
 
-const day = (iso: string) => new Date(iso).toLocaleDateString("en-GB", { day: "numeric", month: "short", year: "numeric", timeZone: "UTC" });
 
 /** The order's deposit: what was asked, paid and refunded, the balance due, and the owner's actions. */
 export function DepositPanel({ view, order, currency, canWrite }: { view: DepositView; order: { status: string; totalMinor: number }; currency: string; canWrite: boolean }) {
@@ -43,9 +43,9 @@ export function DepositPanel({ view, order, currency, canWrite }: { view: Deposi
       </div>
       {deposit && (
         <dl className="grid grid-cols-2 gap-x-6 gap-y-2 text-sm sm:grid-cols-4">
-          <Figure label={`Asked ${day(deposit.requestedAt)}`} value={money(deposit.amountMinor)} />
-          <Figure label={deposit.paidAt ? `Paid ${day(deposit.paidAt)}` : "Paid"} value={money(view.paidMinor)} />
-          <Figure label={deposit.refundedAt ? `Refunded ${day(deposit.refundedAt)}` : "Refunded"} value={money(view.refundedMinor)} />
+          <Figure label={`Asked ${formatDay(deposit.requestedAt)}`} value={money(deposit.amountMinor)} />
+          <Figure label={deposit.paidAt ? `Paid ${formatDay(deposit.paidAt)}` : "Paid"} value={money(view.paidMinor)} />
+          <Figure label={deposit.refundedAt ? `Refunded ${formatDay(deposit.refundedAt)}` : "Refunded"} value={money(view.refundedMinor)} />
           <Figure label="Balance due" value={money(view.balanceMinor)} strong testId="balance-due" />
         </dl>
       )}

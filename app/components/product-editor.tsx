@@ -8,6 +8,7 @@ import { Field, FormAlert, SubmitButton } from "./forms";
 import { PageHeader } from "./page-header";
 import { allRows, openEditorKeepingKeys, PartsGrid } from "./parts-grid";
 import { PART_FIELD_LABELS, validatePartRows, type PartContext, type PartField, type PartRow, type ProductResult, type ProductValues, type RowErrors } from "~/lib/catalogue";
+import { formatDay } from "~/lib/dates";
 
 export type ProductEditorProps = {
   productId: string | null;
@@ -116,7 +117,7 @@ function Editor({ productId, values, currency, materials, parts: ctx, retiredAt,
       {!canWrite && <FormAlert tone="warn">Read only: only the owner changes the catalogue.</FormAlert>}
       {retiredAt && (
         <FormAlert tone="warn">
-          Retired on {day(retiredAt)}: new orders do not offer it. The orders that have it keep it.
+          Retired on {formatDay(retiredAt)}: new orders do not offer it. The orders that have it keep it.
         </FormAlert>
       )}
 
@@ -206,7 +207,6 @@ function visibleErrors(rows: PartRow[], client: RowErrors, server: RowErrors, to
   return out;
 }
 
-const day = (iso: string) => new Date(iso).toLocaleDateString("en-GB", { day: "numeric", month: "short", year: "numeric", timeZone: "UTC" });
 
 /** Where the product is used, and the owner's ways to retire, bring back or delete it. */
 function ProductLife({ retired, use, canWrite }: { retired: boolean; use: { lines: number; orders: number }; canWrite: boolean }) {

@@ -35,6 +35,13 @@ export function formatDate(isoDate: string): string {
   return text;
 }
 
+const DAY = new Intl.DateTimeFormat("en-GB", { day: "numeric", month: "short", year: "numeric", timeZone: "UTC" });
+
+/** "2 Dec 2026": the (UTC) day of an instant given as an ISO timestamp, such as when a deposit was paid. */
+export function formatDay(isoTimestamp: string): string {
+  return DAY.format(new Date(isoTimestamp));
+}
+
 /** Default due date: the longest lead time of the ordered products before the event (14 days when none says). */
 export function defaultDueDate(eventDate: string, leadTimesDays: (number | null)[]): string {
   const known = leadTimesDays.filter((d): d is number => d !== null);

@@ -15,14 +15,26 @@ type Tx = Parameters<Parameters<ReturnType<typeof getDb>["transaction"]>[0]>[0];
 export const orderTotal = (orderId: string | SQLWrapper) =>
   sql<number>`coalesce((select sum(${orderLines.quantity}::bigint * ${orderLines.unitPriceMinor}) from ${orderLines} where ${orderLines.orderId} = ${orderId}), 0)::bigint`;
 
-/** What the shop's rule would ask of this order now; null when it asks nothing. */
-export async function proposedDeposit(shopId: string, orderId: string): Promise<number | null> {
+/** What the shop's rule would ask of this order now, in the shop's currency; null when it asks nothing. */
+async function proposal(shopId: string, orderId: string): Promise<{ amountMinor: number; currency: string } | null> {
   const [row] = await getDb()
-    .select({ total: orderTotal(orderId), depositRule: shops.depositRule, depositPercent: shops.depositPercent, depositFixedMinor: shops.depositFixedMinor })
+    .select({ total: orderTotal(orderId), depositRule: shops.depositRule, depositPercent: shops.depositPercent, depositFixedMinor: shops.depositFixedMinor, currency: shops.currency })
     .from(orders)
     .innerJoin(shops, eq(shops.id, orders.shopId))
     .where(and(eq(orders.id, orderId), eq(orders.shopId, shopId)));
-  return row ? depositFor(row, Number(row.total)) : null;
+  const amountMinor = row ? depositFor(row, Number(row.total)) : null;
+  return amountMinor === null ? null : { amountMinor, currency: row.currency };
+}
+
+/** What the shop's rule would ask of this order now; null when it asks nothing. */
+export async function proposedDeposit(shopId: string, orderId: string): Promise<number | null> {
+  return (await proposal(shopId, orderId))?.amountMinor ?? null;
+}
+
+/** Why the payment service would not take the deposit the rule asks of this order now; null when it would, or nothing is asked. */
+export async function proposedDepositRefusal(shopId: string, orderId: string): Promise<string | null> {
+  const proposed = await proposal(shopId, orderId);
+  return proposed && unchargeableDeposit(proposed.amountMinor, proposed.currency);
 }
 
 /**

@@ -16,7 +16,7 @@ import { linesEditable, nextStatuses, ORDER_STATUSES, STATUS_LABELS } from "~/li
 import { can } from "~/lib/permissions";
 import { balanceOf, unchargeableDeposit } from "~/lib/deposits";
 import { depositLink, sendConfirmation, sendDepositRequest } from "~/models/confirmation.server";
-import { DepositError, openDeposit, orderDeposit, orderMoves, proposedDeposit, refundDeposit } from "~/models/deposits.server";
+import { DepositError, openDeposit, orderDeposit, orderMoves, proposedDeposit, proposedDepositRefusal, refundDeposit } from "~/models/deposits.server";
 import { publicOrigin } from "~/mail.server";
 import { paymentErrorMessage, paymentsConfigured } from "~/payments.server";
 import { customerChoices } from "~/models/customers.server";
@@ -92,9 +92,7 @@ export async function action(args: Route.ActionArgs) {
       case "move": {
         if (input.to === "confirmed" && input.deposit === "yes" && paymentsConfigured()) {
           // Refused before the order moves, so a deposit the payment service would not take leaves it unconfirmed.
-          const proposed = await proposedDeposit(user.shopId, orderId);
-          const shop = proposed === null ? null : await getShop(user.shopId);
-          const unchargeable = shop && unchargeableDeposit(proposed!, shop.currency);
+          const unchargeable = await proposedDepositRefusal(user.shopId, orderId);
           if (unchargeable) return fail(`${unchargeable} The order was not confirmed: untick the deposit to confirm it without one.`);
         }
         const before = await moveOrder(user.shopId, orderId, input.to);
@@ -185,6 +183,7 @@ const MOVE_LABELS: Partial<Record<string, string>> = {
 
 export default function OrderPage({ loaderData, actionData }: Route.ComponentProps) {
   const { order, currency, canWrite, products, customers, materialCost, deposits } = loaderData;
+  const depositRefusal = deposits?.proposedMinor ? unchargeableDeposit(deposits.proposedMinor, currency) : null;
   const errors: Record<string, string> = actionData?.errors ?? {};
   const editable = canWrite && linesEditable(order.status);
   return (
@@ -230,8 +229,8 @@ export default function OrderPage({ loaderData, actionData }: Route.ComponentPro
 
       {canWrite && nextStatuses(order.status).length > 0 && (
         <div className="space-y-2">
-          {nextStatuses(order.status).includes("confirmed") && deposits?.proposedMinor && unchargeableDeposit(deposits.proposedMinor, currency) ? (
-            <p className="text-sm text-muted">{unchargeableDeposit(deposits.proposedMinor, currency)} The order confirms without one; take it another way.</p>
+          {nextStatuses(order.status).includes("confirmed") && deposits?.proposedMinor && depositRefusal ? (
+            <p className="text-sm text-muted">{depositRefusal} The order confirms without one; take it another way.</p>
           ) : nextStatuses(order.status).includes("confirmed") && deposits?.proposedMinor ? (
             // Sent with the confirm button's form (the form attribute), shown above the row of buttons.
             <label className="flex min-h-11 items-center gap-2 text-sm">
