@@ -57,14 +57,20 @@ describe("the catalogue in chromium", () => {
     await app?.stop();
   });
 
-  it("the owner builds a two-part product with the keyboard, sees a bad width in red, fixes it, saves and finds it after a reload", async () => {
-    const productName = `Welcome sign with stand ${Math.random().toString(36).slice(2, 7)}`;
-    const context = await browser.newContext({ viewport: VIEWPORTS.desktop });
+  /** The owner on a fresh new-product form at this viewport, its grid running; console errors collected. */
+  async function newProductForm(viewport: { width: number; height: number }) {
+    const context = await browser.newContext({ viewport });
     const page = await context.newPage();
     const errors = watchErrors(page);
     await signInAs(page, app.url, shop.users.owner);
     await page.goto(`${app.url}/catalogue/products/new`, { waitUntil: "networkidle" });
     await page.locator(".ag-root").waitFor();
+    return { context, page, errors };
+  }
+
+  it("the owner builds a two-part product with the keyboard, sees a bad width in red, fixes it, saves and finds it after a reload", async () => {
+    const productName = `Welcome sign with stand ${Math.random().toString(36).slice(2, 7)}`;
+    const { context, page, errors } = await newProductForm(VIEWPORTS.desktop);
 
     await page.getByLabel("Name").fill(productName);
     await page.getByLabel("Price (EUR)").fill("85.00");
@@ -145,14 +151,8 @@ describe("the catalogue in chromium", () => {
     await context.close();
   });
 
-  // A slow tablet (the CPU slowed four times) and a typist who never waits for an editor to open: the
-  // grid used to lose the first keys typed after Tab or after "Add part".
   it("an empty new product is told about its name, its price and its parts at once", async () => {
-    const context = await browser.newContext({ viewport: VIEWPORTS.phone });
-    const page = await context.newPage();
-    await signInAs(page, app.url, shop.users.owner);
-    await page.goto(`${app.url}/catalogue/products/new`, { waitUntil: "networkidle" });
-    await page.locator(".ag-root").waitFor();
+    const { context, page } = await newProductForm(VIEWPORTS.phone);
     await page.getByRole("button", { name: "Create product" }).click();
     await page.getByText("Add at least one part.").waitFor();
     await expect.poll(() => page.getByLabel("Name").getAttribute("aria-invalid")).toBe("true");
@@ -160,14 +160,11 @@ describe("the catalogue in chromium", () => {
     await context.close();
   });
 
+  // A slow tablet (the CPU slowed four times) and a typist who never waits for an editor to open: the
+  // grid used to lose the first keys typed after Tab or after "Add part".
   it("keeps every key of a fast typist on a slow tablet", async () => {
     const productName = `Place card set ${Math.random().toString(36).slice(2, 7)}`;
-    const context = await browser.newContext({ viewport: VIEWPORTS.tablet });
-    const page = await context.newPage();
-    const errors = watchErrors(page);
-    await signInAs(page, app.url, shop.users.owner);
-    await page.goto(`${app.url}/catalogue/products/new`, { waitUntil: "networkidle" });
-    await page.locator(".ag-root").waitFor();
+    const { context, page, errors } = await newProductForm(VIEWPORTS.tablet);
     await page.getByLabel("Name").fill(productName);
     await page.getByLabel("Price (EUR)").fill("12.00");
     const cdp = await context.newCDPSession(page);
