@@ -156,6 +156,9 @@ interface Row {
   walls: number[];
   invalid: number;
   atRef: number;
+  /** instances whose reference the engine's complete search proved unreachable, and the references raised to its bounds */
+  proven: number;
+  raised: number;
 }
 
 function median(a: number[]) {
@@ -169,7 +172,7 @@ function runSet(insts: Instance[], groupOf: (i: Instance) => string, budget: num
     const key = groupOf(inst);
     let row = rows.get(key);
     if (!row) {
-      row = { label: key, n: 0, ours: 0, ref: 0, gbp: 0, mr: 0, alb: 0, times: [], walls: [], invalid: 0, atRef: 0 };
+      row = { label: key, n: 0, ours: 0, ref: 0, gbp: 0, mr: 0, alb: 0, times: [], walls: [], invalid: 0, atRef: 0, proven: 0, raised: 0 };
       rows.set(key, row);
     }
     const job = toJob(inst, budget);
@@ -186,13 +189,15 @@ function runSet(insts: Instance[], groupOf: (i: Instance) => string, budget: num
     row.times.push(t);
     row.walls.push(wall);
     if (plan.metrics.sheets <= ref) row.atRef++;
+    if (plan.metrics.lowerBound > ref) row.proven++;
+    row.raised += Math.max(ref, plan.metrics.lowerBound);
     process.stderr.write(`${inst.id}: ${plan.metrics.sheets} (ref ${ref}, lb ${plan.metrics.lowerBound}) ${t.toFixed(0)} ms CPU, ${wall.toFixed(0)} ms wall\n`);
   }
   return [...rows.values()];
 }
 
 function total(rows: Row[], label: string): Row {
-  const r: Row = { label, n: 0, ours: 0, ref: 0, gbp: 0, mr: 0, alb: 0, times: [], walls: [], invalid: 0, atRef: 0 };
+  const r: Row = { label, n: 0, ours: 0, ref: 0, gbp: 0, mr: 0, alb: 0, times: [], walls: [], invalid: 0, atRef: 0, proven: 0, raised: 0 };
   for (const x of rows) {
     r.n += x.n;
     r.ours += x.ours;
@@ -204,6 +209,8 @@ function total(rows: Row[], label: string): Row {
     r.walls.push(...x.walls);
     r.invalid += x.invalid;
     r.atRef += x.atRef;
+    r.proven += x.proven;
+    r.raised += x.raised;
   }
   return r;
 }
@@ -212,14 +219,14 @@ const pct = (a: number, b: number) => (b ? `${((a / b - 1) * 100).toFixed(2)} %`
 
 function table(rows: Row[]): string {
   const head =
-    "| group | instances | ours | reference | ours vs ref | at ref | median ms CPU | worst ms CPU | worst ms wall | GuillotineBinPack plain | vs ref | maxrects-packer | vs ref | area LB | invalid |\n" +
-    "|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|\n";
+    "| group | instances | ours | reference | ours vs ref | at ref | median ms CPU | worst ms CPU | worst ms wall | GuillotineBinPack plain | vs ref | maxrects-packer | vs ref | area LB | proven above ref | raised ref | ours vs raised | invalid |\n" +
+    "|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|\n";
   return (
     head +
     rows
       .map(
         (r) =>
-          `| ${r.label} | ${r.n} | ${r.ours} | ${r.ref} | ${pct(r.ours, r.ref)} | ${r.atRef} | ${median(r.times).toFixed(0)} | ${Math.max(...r.times).toFixed(0)} | ${Math.max(...r.walls).toFixed(0)} | ${r.gbp} | ${pct(r.gbp, r.ref)} | ${r.mr} | ${pct(r.mr, r.ref)} | ${r.alb} | ${r.invalid} |`,
+          `| ${r.label} | ${r.n} | ${r.ours} | ${r.ref} | ${pct(r.ours, r.ref)} | ${r.atRef} | ${median(r.times).toFixed(0)} | ${Math.max(...r.times).toFixed(0)} | ${Math.max(...r.walls).toFixed(0)} | ${r.gbp} | ${pct(r.gbp, r.ref)} | ${r.mr} | ${pct(r.mr, r.ref)} | ${r.alb} | ${r.proven} | ${r.raised} | ${pct(r.ours, r.raised)} | ${r.invalid} |`,
       )
       .join("\n") +
     "\n"
@@ -231,6 +238,7 @@ function targetLines(rows: Row[], tot: Row, budget: number): string {
   const mark = (ok: boolean) => (ok ? "met" : "**not met**");
   const ratio = (r: Row) => r.ours / r.ref - 1;
   const worst = rows.reduce((a, b) => (ratio(b) > ratio(a) ? b : a));
+  const worstRaised = rows.reduce((a, b) => (b.ours / b.raised > a.ours / a.raised ? b : a));
   const over = rows.filter((r) => ratio(r) > 0.05).map((r) => `${r.label} ${pct(r.ours, r.ref)}`);
   const worstCpu = Math.max(...tot.times);
   const worstWall = Math.max(...tot.walls);
@@ -239,6 +247,7 @@ function targetLines(rows: Row[], tot: Row, budget: number): string {
     `- total within 2.5 % of the reference: ${pct(tot.ours, tot.ref)}, ${mark(tot.ours <= tot.ref * 1.025)}`,
     `- no class worse than 5 %: worst ${worst.label} ${pct(worst.ours, worst.ref)}, ${mark(over.length === 0)}${over.length ? ` (${over.join(", ")})` : ""}`,
     `- at least 5 % fewer bins than plain GuillotineBinPack: ${pct(tot.ours, tot.gbp)} (${tot.ours} vs ${tot.gbp}), ${mark(tot.ours <= tot.gbp * 0.95)}`,
+    `- for information, not a target: against the references raised where the engine's complete search proved them unreachable (${tot.proven} instance(s)), total ${pct(tot.ours, tot.raised)}, worst ${worstRaised.label} ${pct(worstRaised.ours, worstRaised.raised)}`,
     `- every instance within its ${budget} ms budget on the engine's ${clockKind === "cpu" ? "CPU" : "wall"} clock: worst ${(clockKind === "cpu" ? worstCpu : worstWall).toFixed(0)} ms, ${mark((clockKind === "cpu" ? worstCpu : worstWall) <= budget)} (worst wall-clock time ${worstWall.toFixed(0)} ms)`,
     "",
   ].join("\n");

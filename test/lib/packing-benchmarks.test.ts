@@ -5,8 +5,7 @@ import { describe, expect, it } from "vitest";
 import { areaBound, dffBound } from "~/lib/packing/bounds";
 import { pack } from "~/lib/packing/engine";
 import { validatePlan } from "~/lib/packing/validate";
-import type { Job } from "~/lib/packing/types";
-import { fakeClock } from "./packing-helpers";
+import { fakeClock, instanceJob } from "./packing-helpers";
 
 const dir = process.env.STOPWISE_BENCHMARKS ?? path.resolve(__dirname, "../../../shared/benchmarks");
 const present = existsSync(dir);
@@ -28,18 +27,6 @@ function instance(file: string, id: string): Instance {
   return inst;
 }
 
-function toJob(inst: Instance, timeLimitMs: number): Job {
-  return {
-    kerf: 0,
-    trim: 0,
-    stages: 0,
-    objective: "sheets",
-    timeLimitMs,
-    seed: 1,
-    stock: [{ id: "bin", length: inst.bin.width, width: inst.bin.height, quantity: null, cost: 1, grain: "none", trimmed: true }],
-    parts: inst.items.map((it, i) => ({ id: `i${i}`, length: it.width, width: it.height, quantity: it.demand, rotate: true })),
-  };
-}
 
 const boundItems = (inst: Instance) =>
   inst.items.map((it) => ({ count: it.demand, orients: [[it.width, it.height], [it.height, it.width]] as [number, number][] }));
@@ -58,7 +45,7 @@ describe.skipIf(!present)("published benchmark values (../shared/benchmarks, var
     it(`reaches the best-known ${bins} bin(s) on ${id} (${file})`, () => {
       const inst = instance(file, id);
       expect(inst.best_known["2BP|R|G"].bins).toBe(bins);
-      const job = toJob(inst, 300);
+      const job = instanceJob(inst, 300);
       const plan = pack(job, { now: fakeClock(0.005) });
       expect(validatePlan(job, plan)).toEqual({ ok: true, errors: [] });
       expect(plan.unplaced).toEqual([]);

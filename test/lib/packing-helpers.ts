@@ -25,3 +25,20 @@ export const sheet2440 = (over: Record<string, unknown> = {}) => ({
   trimmed: true,
   ...over,
 });
+
+/** A literature instance (../shared/benchmarks format) as a job: kerf and trim 0, stages 0, parts may turn. */
+export function instanceJob(
+  inst: { bin: { width: number; height: number }; items: { width: number; height: number; demand: number }[] },
+  timeLimitMs: number,
+): Job {
+  return {
+    kerf: 0,
+    trim: 0,
+    stages: 0,
+    objective: "sheets",
+    timeLimitMs,
+    seed: 1,
+    stock: [{ id: "bin", length: inst.bin.width, width: inst.bin.height, quantity: null, cost: 1, grain: "none", trimmed: true }],
+    parts: inst.items.map((it, i) => ({ id: `i${i}`, length: it.width, width: it.height, quantity: it.demand, rotate: true })),
+  };
+}

@@ -1,5 +1,7 @@
 // pack(job): lays the parts of a job onto its stock and returns a validated plan.
 import { areaBound, bigItemBound, dffBound, type BoundItem } from "./bounds";
+import { COMPLETE_MAX_PER_PANEL, completeSearch } from "./complete";
+import { ExactFit } from "./exact";
 import type { BinContext, FillParams, GuillotineParams, Orient } from "./fill";
 import { goalDrivenGuillotine } from "./goal";
 import { layoutPanel, type RectUm } from "./layout";
@@ -48,6 +50,9 @@ const FEW_PARTS_PER_PANEL = 6;
 const FULLEST_NODES = 200;
 /** the goal-driven search gets this share of the improvement time, the pool search the rest */
 const POOL_SHARE_START = 0.5;
+/** stages-0 jobs of at most this many parts on one kind of panel get the complete search, for this share of the budget */
+const COMPLETE_MAX_PARTS = 40;
+const COMPLETE_SHARE = 0.3;
 
 /** Share of the parts that are long and thin on some panel: longer than half of it one way, at most half the other way. */
 function longThinShare(prep: Prepared): number {
@@ -72,7 +77,7 @@ export function stagedVariants(stages: 2 | 3): FillParams[] {
   return v;
 }
 
-interface Prepared {
+export interface Prepared {
   job: Job;
   kerf: number;
   slots: StockSlot[];
@@ -84,7 +89,7 @@ interface Prepared {
   lowerBoundItems: BoundItem[];
 }
 
-function prepare(job: Job): Prepared {
+export function prepare(job: Job): Prepared {
   const kerf = mmToUm(job.kerf);
   const trim = mmToUm(job.trim);
   const staged = job.stages !== 0;
@@ -150,7 +155,7 @@ function prepare(job: Job): Prepared {
   return { job, kerf, slots, trimOf, usable, typePart, demand, unplaced, lowerBoundItems };
 }
 
-function lowerBound(prep: Prepared, counts: Int32Array): number {
+export function lowerBound(prep: Prepared, counts: Int32Array): number {
   const items = prep.lowerBoundItems.map((it, t) => ({ ...it, count: counts[t] })).filter((it) => it.count > 0);
   if (items.length === 0) return 0;
   const bins = prep.slots.map((s) => ({ W: s.ctx.W, H: s.ctx.H })).filter((b) => b.W > 0 && b.H > 0);
@@ -158,6 +163,35 @@ function lowerBound(prep: Prepared, counts: Int32Array): number {
   const sizes = new Set(bins.map((b) => `${b.W}x${b.H}`));
   if (sizes.size === 1) lb = Math.max(lb, dffBound(items, bins[0]));
   return lb;
+}
+
+/**
+ * Complete search (complete.ts) from the bound up: each panel count it proves impossible raises
+ * the bound; a count it can fill gives a plan on that many panels. Stops at its deadline.
+ */
+function provePanels(prep: Prepared, best: Solution, bound: number, stop: () => boolean, fallback: FillParams): { best: Solution; bound: number } {
+  const slot = prep.slots[0];
+  while (bound < best.bins.length && bound <= slot.quantity) {
+    const r = completeSearch(slot.ctx, prep.demand, bound, stop);
+    if (r.status === "unknown") break;
+    if (r.status === "infeasible") {
+      bound++;
+      continue;
+    }
+    const exact = new ExactFit(slot.ctx, COMPLETE_MAX_PER_PANEL);
+    const nT = prep.demand.length;
+    const bins = r.panels.map((items) => {
+      const counts = new Int32Array(nT);
+      let load = 0;
+      for (const t of items) {
+        counts[t]++;
+        load += exact.area[t];
+      }
+      return { s: 0, counts, placed: exact.place(items)!, load, v: fallback };
+    });
+    return { best: { bins, left: new Int32Array(nT) }, bound };
+  }
+  return { best, bound };
 }
 
 interface Built {
@@ -324,6 +358,14 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
   }
   let best = cands[0];
   for (const c of cands) if (lexLess(basicKey(c, prep.slots), basicKey(best, prep.slots))) best = c;
+  // a few parts on one kind of panel: prove the panel count, or find the plan that meets the bound
+  let bound = lb;
+  if (job.stages === 0 && prep.slots.length === 1 && totalParts <= COMPLETE_MAX_PARTS && best.left.every((n) => n === 0) && best.bins.length > lb) {
+    const stopAt = now() + budget * COMPLETE_SHARE;
+    ({ best, bound } = provePanels(prep, best, lb, () => now() > stopAt, variants[0]));
+    if (best.bins.length <= bound) cands.push(best);
+    input.lowerBound = bound;
+  }
   options.onProgress?.({ bestSheets: best.bins.length });
   // improvement: leave a little time to lay out and check the plan
   const nParts = prep.demand.reduce((a, b) => a + b, 0);
@@ -354,7 +396,7 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
   for (const { sol } of eligible.slice(0, job.objective === "setups" ? 60 : 8)) {
     if (built.length > 0 && now() > t0 + budget * 0.95 - Math.min(budget * 0.2, nParts * 0.02)) break;
     try {
-      built.push({ sol, plan: buildPlan(prep, sol, 0, lb) });
+      built.push({ sol, plan: buildPlan(prep, sol, 0, bound) });
     } catch {
       // a layout the cut derivation rejects is never offered
     }

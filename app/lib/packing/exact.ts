@@ -130,7 +130,11 @@ export class ExactFit {
   /** boxes considered, a measure of the work done */
   readonly count = { work: 0 };
 
-  constructor(readonly ctx: BinContext) {
+  /** maxParts: larger sets are refused unchecked (the work grows as 3^n) */
+  constructor(
+    readonly ctx: BinContext,
+    readonly maxParts = EXACT_MAX_PARTS,
+  ) {
     const n = ctx.orients.length;
     this.area = new Float64Array(n);
     for (let t = 0; t < n; t++) {
@@ -156,7 +160,7 @@ export class ExactFit {
   /** Whether the parts (type ids, repeats allowed) fit the panel in a guillotine pattern. */
   fits(types: number[]): boolean {
     if (types.length === 0) return true;
-    if (types.length > EXACT_MAX_PARTS) return false;
+    if (types.length > this.maxParts) return false;
     let a = 0;
     for (const t of types) a += this.area[t];
     if (a > this.ctx.W * this.ctx.H) return false;
@@ -177,7 +181,7 @@ export class ExactFit {
 
   /** A guillotine placement of the parts, or null when they do not fit. */
   place(types: number[]): Placed[] | null {
-    if (types.length > EXACT_MAX_PARTS) return null;
+    if (types.length > this.maxParts) return null;
     if (types.length === 0) return [];
     const mf = this.frontiers();
     for (const t of types) if (!mf.push(t)) return null;
