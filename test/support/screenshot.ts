@@ -10,7 +10,8 @@ try {
     const context = await browser.newContext({ viewport });
     if (cookie) {
       const [key, value] = cookie.split("=");
-      await context.addCookies([{ name: key, value, url }]);
+      // for the whole site, so the page's own /api requests are signed in too
+      await context.addCookies([{ name: key, value, domain: new URL(url).hostname, path: "/" }]);
     }
     const page = await context.newPage();
     await page.goto(url, { waitUntil: "networkidle" });
