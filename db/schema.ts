@@ -397,7 +397,9 @@ export const plans = pgTable(
     progress: jsonb("progress").$type<PlanProgress>(),
     // The engine's job and plan, as saved after the validator passed it.
     result: jsonb("result").$type<unknown>(),
+    // Panels the plan opens (stock panels and racked offcuts together), and how many of them are offcuts.
     sheets: integer("sheets"),
+    offcutsUsed: integer("offcuts_used"),
     yieldPermille: integer("yield_permille"),
     costMinor: integer("cost_minor"),
     setups: integer("setups"),

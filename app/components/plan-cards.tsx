@@ -1,10 +1,14 @@
 import { Form, Link } from "react-router";
 import { formatMoney } from "~/lib/money";
+import { stockCount } from "~/lib/stock-names";
 import type { PlanSummary } from "~/models/plans.server";
 
 const STATUS = { queued: "Waiting for a runner", running: "Searching", done: "Finished", failed: "Failed", cancelled: "Cancelled" } as const;
 const percent = (permille: number | null) => (permille === null ? "—" : `${(permille / 10).toFixed(1)} %`);
 const area = (mm2: number | null, unit: "mm" | "in") => (mm2 === null ? "—" : unit === "mm" ? `${(mm2 / 1e6).toFixed(2)} m²` : `${(mm2 / 92_903.04).toFixed(1)} ft²`);
+// Panels counted apart: a plan that opens two racked offcuts and a small sheet must not read as "3 panels".
+const panelsOf = (p: PlanSummary) => (p.sheets === null ? null : p.sheets - (p.offcutsUsed ?? 0));
+const drawn = (p: PlanSummary) => (p.sheets === null ? "—" : stockCount(panelsOf(p)!, p.offcutsUsed ?? 0));
 const STAGES = { 0: "any cuts", 2: "rip then crosscut", 3: "breakdown, rip, crosscut" } as const;
 
 /** One plan of a batch: live progress while it runs, its figures when it is done. */
@@ -30,11 +34,16 @@ export function PlanCard({ plan, batchId, currency, canWrite, chosen }: { plan: 
       )}
       {plan.status === "done" && (
         <dl className="grid grid-cols-2 gap-x-4 gap-y-1 text-sm sm:grid-cols-3">
-          <Figure label="Panels" value={plan.sheets} />
+          <Figure label="Stock" value={drawn(plan)} wide />
           <Figure label="Yield" value={percent(plan.yieldPermille)} />
           <Figure label="Cost" value={plan.costMinor === null ? "—" : formatMoney(plan.costMinor, currency)} />
           <Figure label="Settings" value={plan.setups} />
         </dl>
+      )}
+      {plan.status === "done" && (plan.offcutsUsed ?? 0) > 0 && (
+        <p className="text-sm text-muted" data-testid="offcut-reason">
+          Offcuts first: the rack is used before new stock whenever that takes no extra sheet, so this plan cuts {plan.offcutsUsed === 1 ? "a racked offcut" : `${plan.offcutsUsed} racked offcuts`}.
+        </p>
       )}
       {plan.error && <p className={`text-sm ${plan.status === "failed" ? "text-bad" : "text-warn"}`}>{plan.error}</p>}
       <div className="flex flex-wrap gap-2">
@@ -66,19 +75,20 @@ export function PlanCard({ plan, batchId, currency, canWrite, chosen }: { plan: 
   );
 }
 
-function Figure({ label, value }: { label: string; value: React.ReactNode }) {
+function Figure({ label, value, wide = false }: { label: string; value: React.ReactNode; wide?: boolean }) {
   return (
-    <div>
+    <div className={wide ? "col-span-2" : undefined}>
       <dt className="text-muted">{label}</dt>
       <dd className="text-lg font-semibold tabular-nums">{value ?? "—"}</dd>
     </div>
   );
 }
 
-/** Two finished plans side by side: panels, yield, cost, settings, offcuts. */
+/** Two finished plans side by side: sheets, racked offcuts, yield, cost, settings, offcuts made. */
 export function PlanCompare({ a, b, currency, unit }: { a: PlanSummary; b: PlanSummary; currency: string; unit: "mm" | "in" }) {
   const rows: [string, (p: PlanSummary) => string | number | null, (p: PlanSummary) => number | null][] = [
-    ["Panels", (p) => p.sheets, (p) => p.sheets],
+    ["Sheets", (p) => panelsOf(p), (p) => panelsOf(p)],
+    ["Racked offcuts used", (p) => p.offcutsUsed ?? "—", () => null], // neither more nor fewer is better by itself
     ["Yield", (p) => percent(p.yieldPermille), (p) => (p.yieldPermille === null ? null : -p.yieldPermille)],
     ["Cost", (p) => (p.costMinor === null ? "—" : formatMoney(p.costMinor, currency)), (p) => p.costMinor],
     ["Fence and stop settings", (p) => p.setups, (p) => p.setups],

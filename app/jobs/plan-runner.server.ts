@@ -199,6 +199,7 @@ async function finish(planId: string, batchId: string, outcome: Outcome, stockRe
         status: "done",
         result,
         sheets: plan.metrics.sheets,
+        offcutsUsed: plan.sheets.filter((sheet) => stockRefs[sheet.stockId]?.kind === "offcut").length,
         yieldPermille: Math.round(plan.metrics.yield * 1000),
         costMinor,
         setups: plan.metrics.setups,

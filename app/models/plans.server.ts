@@ -18,6 +18,7 @@ export type PlanSummary = {
   settings: PlanSettings;
   progress: PlanProgress | null;
   sheets: number | null;
+  offcutsUsed: number | null;
   yieldPermille: number | null;
   costMinor: number | null;
   setups: number | null;
@@ -34,6 +35,7 @@ const summaryColumns = {
   settings: plans.settings,
   progress: plans.progress,
   sheets: plans.sheets,
+  offcutsUsed: plans.offcutsUsed,
   yieldPermille: plans.yieldPermille,
   costMinor: plans.costMinor,
   setups: plans.setups,

@@ -423,3 +423,25 @@ describe("release", () => {
     expect(again.text).toContain("already released");
   });
 });
+
+describe("plan cards", () => {
+  it("count sheets and racked offcuts apart, and say why a plan cuts offcuts", async () => {
+    const s = await scenario();
+    const [offcut] = await db.insert(t.offcuts).values({ shopId: s.shop.id, materialId: s.birch6.id, lengthUm: mm(1300), widthUm: mm(700), location: "Rack B" }).returning();
+    const [batchId] = await createBatches(s.shop.id, "2027-01-10", [s.birch6.id]); // the wedding's sign and three numbers fit the offcut
+    const withOffcut = await requestPlan(s.shop.id, batchId, settings({ offcutIds: [offcut.id] }));
+    await waitForPlan(withOffcut, ["done"]);
+    const sheetsOnly = await requestPlan(s.shop.id, batchId, settings());
+    const saved = await waitForPlan(sheetsOnly, ["done"]);
+    expect((await waitForPlan(withOffcut, ["done"])).offcutsUsed).toBe(1);
+    expect(saved.offcutsUsed).toBe(0);
+
+    const planner = await signIn(server, s.shop.users.planner);
+    const html = visible((await request(server).get(`/batches/${batchId}`).set("Cookie", planner)).text);
+    const card = (n: number) => html.slice(html.indexOf(`data-plan="${n}"`), html.indexOf("</article>", html.indexOf(`data-plan="${n}"`)));
+    expect(card(1)).toContain(">0 sheets · 1 offcut<");
+    expect(card(1)).toContain("Offcuts first: the rack is used before new stock whenever that takes no extra sheet, so this plan cuts a racked offcut.");
+    expect(card(2)).toContain(">1 sheet<");
+    expect(card(2)).not.toContain("Offcuts first");
+  });
+});
