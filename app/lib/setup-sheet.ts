@@ -3,6 +3,7 @@
 // interface); they become integer micrometres here and are formatted in the shop's unit.
 import type { Cut, Placement, Plan, Setup, SheetPlan } from "./packing/types";
 import { fiveCut, formatErrorRate, formatFine, formatKerf, sledWarning, type SledWarning } from "./sled";
+import { stockName } from "./stock-names";
 import { formatLength, formatMillimetres, formatSize, type DisplayUnit } from "./units";
 
 export type SheetPart = { name: string; lengthUm: number; widthUm: number; origins: { orderNumber: number; customerName: string; productName: string; text: string | null }[] };
@@ -173,7 +174,7 @@ export function buildSetupSheet(input: SetupSheetInput): SetupSheet {
   const sheets = plan.plan.sheets;
   const kerfMm = plan.kerfMm;
 
-  // Pull list: full sheets grouped by size, racked offcuts one by one with their rack place.
+  // Pull list: stock panels grouped by size, racked offcuts one by one with their rack place.
   const fullSheets = new Map<string, number[]>();
   const pullOffcuts: string[] = [];
   sheets.forEach((sheet, i) => {
@@ -185,7 +186,7 @@ export function buildSetupSheet(input: SetupSheetInput): SetupSheet {
     } else fullSheets.set(s, [...(fullSheets.get(s) ?? []), i + 1]);
   });
   const pull = [
-    ...[...fullSheets.entries()].map(([s, numbers]) => `${numbers.length} × full sheet ${s} — ${numbers.length === 1 ? "panel" : "panels"} ${numbers.join(", ")}`),
+    ...[...fullSheets.entries()].map(([s, numbers]) => `${numbers.length} × ${stockName("panel", s)} — ${numbers.length === 1 ? "panel" : "panels"} ${numbers.join(", ")}`),
     ...pullOffcuts,
   ];
 
@@ -196,7 +197,7 @@ export function buildSetupSheet(input: SetupSheetInput): SetupSheet {
     for (const p of sheet.placements) labels[p.partId] = labelFor(p.partId);
     return {
       number: i + 1,
-      title: `Panel ${i + 1} of ${sheets.length}: ${ref?.kind === "offcut" ? "racked offcut" : "full sheet"} ${size(um(sheet.length), um(sheet.width))}`,
+      title: `Panel ${i + 1} of ${sheets.length}: ${stockName(ref?.kind, size(um(sheet.length), um(sheet.width)))}`,
       sheet,
       labels,
       breakdown: sheet.cuts.map((cut, c) => ({ cut, n: c + 1 })).filter(({ cut }) => cut.kind === "breakdown").map(({ cut, n }) => `Cut ${n}: mark at ${len(um(cut.setting))} from the edge`),

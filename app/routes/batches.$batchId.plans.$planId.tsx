@@ -6,6 +6,7 @@ import { PageHeader } from "~/components/page-header";
 import { PanelDrawing, SetupList, type PartLabel } from "~/components/panel-drawing";
 import { mmToUm } from "~/lib/packing";
 import { can } from "~/lib/permissions";
+import { stockCount, stockName } from "~/lib/stock-names";
 import { formatSize } from "~/lib/units";
 import { getBatch } from "~/models/batches.server";
 import { batchCutList, LASER_BLANK_PART } from "~/models/plan-job.server";
@@ -33,17 +34,18 @@ export async function loader(args: Route.LoaderArgs) {
   const sheets = packed.sheets.map((sheet, i) => {
     const ref = stockRefs[sheet.stockId];
     const size = formatSize(mmToUm(sheet.length), mmToUm(sheet.width), unit);
-    return { sheet, title: `Panel ${i + 1} of ${packed.sheets.length}: ${ref?.kind === "offcut" ? "racked offcut" : "full sheet"} ${size}` };
+    return { sheet, offcut: ref?.kind === "offcut", title: `Panel ${i + 1} of ${packed.sheets.length}: ${stockName(ref?.kind, size)}` };
   });
-  return { batch, number: plan.number, sheets, labels, setups: packed.setups, kerf: plan.settings.kerfMm, unit, unplaced: packed.unplaced, metrics: packed.metrics, ripMaxMm: shop.ripMaxUm / 1000, printable: batch.chosenPlanId === plan.id && batch.status !== "open" && batch.status !== "planned" && can(user.role, "floor:read") };
+  const offcutsUsed = sheets.filter((s) => s.offcut).length;
+  return { batch, number: plan.number, sheets, stock: stockCount(sheets.length - offcutsUsed, offcutsUsed), labels, setups: packed.setups, kerf: plan.settings.kerfMm, unit, unplaced: packed.unplaced, metrics: packed.metrics, ripMaxMm: shop.ripMaxUm / 1000, printable: batch.chosenPlanId === plan.id && batch.status !== "open" && batch.status !== "planned" && can(user.role, "floor:read") };
 }
 
 export default function PlanView({ loaderData }: Route.ComponentProps) {
-  const { batch, number, sheets, labels, setups, kerf, unit, unplaced, metrics, ripMaxMm, printable } = loaderData;
+  const { batch, number, sheets, stock, labels, setups, kerf, unit, unplaced, metrics, ripMaxMm, printable } = loaderData;
   return (
     <div className="space-y-6">
       <PageHeader eyebrow={`${batch.code} · ${batch.materialName}`} title={`Plan ${number}`}>
-        {metrics.sheets} panel{metrics.sheets === 1 ? "" : "s"} · yield {(metrics.yield * 100).toFixed(1)} % · {metrics.setups} fence and stop settings · kerf {kerf} mm. Tap a part to see its orders.
+        {stock} · yield {(metrics.yield * 100).toFixed(1)} % · {metrics.setups} fence and stop settings · kerf {kerf} mm. Tap a part to see its orders.
       </PageHeader>
       {printable && (
         <p className="flex flex-wrap gap-3">

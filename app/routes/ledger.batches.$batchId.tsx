@@ -56,7 +56,7 @@ export default function LedgerBatch({ loaderData }: Route.ComponentProps) {
           {row.panels.map((p, i) => (
             <li key={i} className="flex flex-wrap justify-between gap-3 px-4 py-2">
               <span>
-                {p.kind === "offcut" ? "Racked offcut" : "Full sheet"} {formatSize(p.lengthUm, p.widthUm, unit)}
+                {p.kind === "offcut" ? "Racked offcut" : "Stock panel"} {formatSize(p.lengthUm, p.widthUm, unit)}
               </span>
               <span className="tabular-nums text-muted">parts {area(p.partsAreaMm2)}</span>
               <span className="tabular-nums">{money(p.costMinor)}</span>

@@ -10,6 +10,7 @@ import { SawCaution } from "~/components/saw-caution";
 import { itemsOf, spoiledOrigins } from "~/lib/batch-parts";
 import { parseForm } from "~/lib/forms";
 import { can } from "~/lib/permissions";
+import { stockName } from "~/lib/stock-names";
 import { formatLength, formatSize, parseLength } from "~/lib/units";
 import { getBatch } from "~/models/batches.server";
 import { chosenPlan, closeBatchAsCut, expectedOffcuts, floorState, FloorStateError, reservedOffcuts, spoilPart, type RackDecision } from "~/models/floor.server";
@@ -134,7 +135,7 @@ export default function FloorView({ loaderData, actionData }: Route.ComponentPro
           <ul className="mt-2 space-y-1">
             {pull.sheets.map((s) => (
               <li key={s.size}>
-                {s.count} × full sheet {s.size}
+                {s.count} × {stockName("panel", s.size)}
               </li>
             ))}
             {pull.offcuts.map((o, i) => (

@@ -51,13 +51,13 @@ describe("the planner in chromium, on a tablet", () => {
     await page.getByLabel("Second", { exact: true }).selectOption({ label: "Plan 2" });
     const table = page.getByTestId("plan-compare");
     await table.waitFor();
-    expect(await table.locator("tbody tr").count()).toBe(5);
+    expect(await table.locator("tbody tr").count()).toBe(6); // sheets and racked offcuts on rows of their own
 
     await first.getByRole("link", { name: "View panels" }).click();
     await page.getByRole("heading", { level: 1, name: "Plan 1" }).waitFor();
     const summary = (await page.getByText(/ · yield /).textContent())!;
-    const panels = Number(summary.match(/^(\d+) panels? · /)![1]);
-    expect(summary).toMatch(panels === 1 ? /^1 panel · / : /^\d+ panels · /); // one panel, two panels
+    const panels = Number(summary.match(/^(\d+) sheets? · /)![1]);
+    expect(summary).toMatch(panels === 1 ? /^1 sheet · / : /^\d+ sheets · /); // one sheet, two sheets
     await page.locator('svg [role="button"]').first().click();
     await page.getByText(/Ardent–Vasquez wedding|Penhaligon party/).first().waitFor();
     await page.goBack();

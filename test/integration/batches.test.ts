@@ -301,7 +301,7 @@ describe("plans on the real queue", () => {
     expect(api.body.plans[0]).toMatchObject({ id: queued.id, status: "done", sheets: 1, setups: expect.any(Number) });
     const view = await request(server).get(`/batches/${six}/plans/${queued.id}`).set("Cookie", owner);
     expect(view.status).toBe(200);
-    expect(visible(view.text)).toContain("Panel 1 of 1: full sheet 2440 × 1220 mm");
+    expect(visible(view.text)).toContain("Panel 1 of 1: stock panel 2440 × 1220 mm");
   });
 
   it("the saw's latest kerf is the form's default, and the chosen sled's stop range bounds the plan", async () => {
@@ -443,5 +443,24 @@ describe("plan cards", () => {
     expect(card(1)).toContain("Offcuts first: the rack is used before new stock whenever that takes no extra sheet, so this plan cuts a racked offcut.");
     expect(card(2)).toContain(">1 sheet<");
     expect(card(2)).not.toContain("Offcuts first");
+  });
+
+  it("the plan view names each panel by its stock, as the catalogue does: a stock panel's size, or a racked offcut", async () => {
+    const s = await scenario();
+    const [offcut] = await db.insert(t.offcuts).values({ shopId: s.shop.id, materialId: s.birch6.id, lengthUm: mm(1300), widthUm: mm(700), location: "Rack B" }).returning();
+    const [six] = await createBatches(s.shop.id, "2027-01-10", [s.birch6.id]);
+    const [three] = await createBatches(s.shop.id, "2027-01-10", [s.birch3.id]); // the place cards, on 1220 × 1220 stock only
+    const onOffcut = await requestPlan(s.shop.id, six, settings({ offcutIds: [offcut.id] }));
+    const onHalf = await requestPlan(s.shop.id, three, settings());
+    await Promise.all([waitForPlan(onOffcut, ["done"]), waitForPlan(onHalf, ["done"])]);
+    const planner = await signIn(server, s.shop.users.planner);
+    const view = async (batchId: string, planId: string) => visible((await request(server).get(`/batches/${batchId}/plans/${planId}`).set("Cookie", planner)).text);
+    const offcutView = await view(six, onOffcut);
+    expect(offcutView).toContain("Panel 1 of 1: racked offcut 1300 × 700 mm");
+    expect(offcutView).toContain("0 sheets · 1 offcut · yield");
+    const halfView = await view(three, onHalf);
+    expect(halfView).toContain("Panel 1 of 1: stock panel 1220 × 1220 mm");
+    expect(halfView).toContain("1 sheet · yield");
+    expect(halfView + offcutView).not.toMatch(/full sheet/i);
   });
 });

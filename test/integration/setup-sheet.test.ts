@@ -117,7 +117,7 @@ describe("the set-up sheet of a released batch", () => {
     expect(out).toContain("WARNING: SLED");
     expect(out).toContain("Sled: none chosen in the plan settings.");
     expect(out).toContain("Saw: none chosen in the plan settings.");
-    expect(out).toContain("1 × full sheet 2440 × 1220 mm");
+    expect(out).toContain("1 × stock panel 2440 × 1220 mm");
   });
 
   it("comes on A4 and US Letter, with IBM Plex Sans embedded", async () => {
@@ -153,7 +153,7 @@ describe("the set-up sheet of a released batch", () => {
       const file = pdfOf(await get(`/batches/${six}/setup-sheet`, sawyer), "inch");
       const out = flat(text(file));
       // 2440 mm = 96.063 in → 96-1/16; 1220 mm = 48.031 in → 48-1/32 (TRADE-FACTS §5, 1 in = 25.4 mm exactly)
-      expect(out).toContain("full sheet ≈ 96-1/16 in (2440 mm) × ≈ 48-1/32 in (1220 mm)");
+      expect(out).toContain("stock panel ≈ 96-1/16 in (2440 mm) × ≈ 48-1/32 in (1220 mm)");
       expect(out).toContain("fence ≈ 5-29/32 in (150 mm)"); // 150 mm = 5.9055 in → 189/32
       expect(execFileSync("pdfinfo", [file], { encoding: "utf8" })).toMatch(/Page size:\s+612 x 792 pts/);
     } finally {

@@ -77,7 +77,7 @@ describe("set-up sheet derivation", () => {
 
   it("warns about a sled without a check, lists stock, offcuts and cautions", () => {
     expect(sheetOut.warning).toContain("no squareness check on record");
-    expect(sheetOut.pull).toEqual(["1 × full sheet 1220 × 1220 mm — panel 1"]);
+    expect(sheetOut.pull).toEqual(["1 × stock panel 1220 × 1220 mm — panel 1"]);
     expect(sheetOut.offcutsToRack).toEqual(["916.8 × 700 mm — from panel 1"]);
     expect(sheetOut.cautions).toBe(CAUTIONS);
     expect(sheetOut.saw).toBe("Saw: none chosen in the plan settings.");
