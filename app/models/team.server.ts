@@ -10,6 +10,13 @@ export class LastOwnerError extends Error {
   }
 }
 
+/** Nobody changes their own membership: removing oneself would end one's own session mid-page. */
+export class OwnMembershipError extends Error {
+  constructor() {
+    super("You cannot change your own role or remove yourself from the shop. Another owner can do it for you.");
+  }
+}
+
 export async function listMembers(shopId: string) {
   return getDb()
     .select({ id: users.id, name: users.name, email: users.email, role: users.role, createdAt: users.createdAt })
@@ -51,11 +58,12 @@ export async function revokeInvitation(shopId: string, invitationId: string): Pr
 }
 
 /**
- * Changes a member's role (or removes them with `role: null`) unless that leaves the shop without an
- * owner. The owners are locked first, so two owners demoting each other at once cannot both succeed.
- * Returns false when no member with that id is in this shop.
+ * Changes a member's role (or removes them with `role: null`) for `actorId`, unless the member is the
+ * actor or it leaves the shop without an owner. The owners are locked first, so two owners demoting
+ * each other at once cannot both succeed. Returns false when no member with that id is in this shop.
  */
-export async function changeMember(shopId: string, memberId: string, role: Role | null): Promise<boolean> {
+export async function changeMember(shopId: string, actorId: string, memberId: string, role: Role | null): Promise<boolean> {
+  if (memberId === actorId) throw new OwnMembershipError();
   return getDb().transaction(async (tx) => {
     const owners = await tx
       .select({ id: users.id })

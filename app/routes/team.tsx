@@ -9,7 +9,7 @@ import { parseForm } from "~/lib/forms";
 import { EmailSchema } from "~/lib/password-policy";
 import { ROLES } from "~/lib/permissions";
 import { publicOrigin, sendMail } from "~/mail.server";
-import { changeMember, createInvitation, emailInUse, LastOwnerError, listMembers, listOpenInvitations, revokeInvitation } from "~/models/team.server";
+import { changeMember, createInvitation, emailInUse, LastOwnerError, listMembers, listOpenInvitations, OwnMembershipError, revokeInvitation } from "~/models/team.server";
 
 export async function loader(args: Route.LoaderArgs) {
   const user = requirePermission(args, "team:manage");
@@ -55,10 +55,10 @@ export async function action(args: Route.ActionArgs) {
     case "role":
     case "remove": {
       try {
-        const found = await changeMember(user.shopId, input.memberId, input.intent === "role" ? input.role : null);
+        const found = await changeMember(user.shopId, user.id, input.memberId, input.intent === "role" ? input.role : null);
         if (!found) throw data("No such member in this shop.", { status: 404 });
       } catch (error) {
-        if (error instanceof LastOwnerError) return data({ intent: input.intent, errors: { form: error.message }, notice: null }, { status: 409 });
+        if (error instanceof LastOwnerError || error instanceof OwnMembershipError) return data({ intent: input.intent, errors: { form: error.message }, notice: null }, { status: 409 });
         throw error;
       }
       return { intent: input.intent, errors: {}, notice: input.intent === "role" ? "Role changed." : "Member removed; their sessions have ended." };
@@ -76,6 +76,31 @@ function RoleOptions() {
       {r}
     </option>
   ));
+}
+
+/** Role change and removal of another member (never one's own row: see OwnMembershipError). */
+function MemberControls({ member }: { member: { id: string; name: string; role: string } }) {
+  return (
+    <div className="flex flex-wrap items-end gap-2">
+      <Form method="post" className="flex items-end gap-2">
+        <input type="hidden" name="intent" value="role" />
+        <input type="hidden" name="memberId" value={member.id} />
+        <SelectField label={`Role of ${member.name}`} name="role" id={`role-${member.id}`} defaultValue={member.role} className="[&>label]:sr-only">
+          <RoleOptions />
+        </SelectField>
+        <button type="submit" className="min-h-11 rounded-md border border-line bg-white px-4 font-medium hover:border-edge">
+          Change role
+        </button>
+      </Form>
+      <Form method="post" onSubmit={(e) => !confirm(`Remove ${member.name} from the shop?`) && e.preventDefault()}>
+        <input type="hidden" name="intent" value="remove" />
+        <input type="hidden" name="memberId" value={member.id} />
+        <button type="submit" className="min-h-11 rounded-md border border-bad/40 px-4 font-medium text-bad hover:bg-bad-soft">
+          Remove
+        </button>
+      </Form>
+    </div>
+  );
 }
 
 const dateFormat = new Intl.DateTimeFormat("en-GB", { day: "numeric", month: "short", year: "numeric" });
@@ -104,25 +129,11 @@ export default function Team({ loaderData }: Route.ComponentProps) {
                 </p>
                 <p className="text-sm text-muted">{m.email}</p>
               </div>
-              <div className="flex flex-wrap items-end gap-2">
-                <Form method="post" className="flex items-end gap-2">
-                  <input type="hidden" name="intent" value="role" />
-                  <input type="hidden" name="memberId" value={m.id} />
-                  <SelectField label={`Role of ${m.name}`} name="role" id={`role-${m.id}`} defaultValue={m.role} className="[&>label]:sr-only">
-                    <RoleOptions />
-                  </SelectField>
-                  <button type="submit" className="min-h-11 rounded-md border border-line bg-white px-4 font-medium hover:border-edge">
-                    Change role
-                  </button>
-                </Form>
-                <Form method="post" onSubmit={(e) => !confirm(`Remove ${m.name} from the shop?`) && e.preventDefault()}>
-                  <input type="hidden" name="intent" value="remove" />
-                  <input type="hidden" name="memberId" value={m.id} />
-                  <button type="submit" className="min-h-11 rounded-md border border-bad/40 px-4 font-medium text-bad hover:bg-bad-soft">
-                    Remove
-                  </button>
-                </Form>
-              </div>
+              {m.id === me ? (
+                <p className="text-sm text-muted">{m.role} · another owner can change your role or remove you</p>
+              ) : (
+                <MemberControls member={m} />
+              )}
             </li>
           ))}
         </ul>

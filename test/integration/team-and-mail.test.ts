@@ -2,10 +2,11 @@ import { eq } from "drizzle-orm";
 import request from "supertest";
 import { describe, expect, it } from "vitest";
 import { invitations, passwordResets, users } from "../../db/schema";
-import { appServer } from "../support/app";
+import { appServer, visible } from "../support/app";
 import { createShop, sessionCookie, signIn, TEST_PASSWORD } from "../support/factories";
 import { linkIn, mailTo, waitForMail } from "../support/outbox";
 import { getDb } from "~/db.server";
+import { changeMember, LastOwnerError } from "~/models/team.server";
 
 const server = await appServer();
 const unique = () => Math.random().toString(36).slice(2, 10);
@@ -121,15 +122,37 @@ describe("members and roles", () => {
   it("a shop always keeps at least one owner", async () => {
     const shop = await createShop();
     const owner = await signIn(server, shop.users.owner);
-    const demote = await request(server).post("/team").set("Cookie", owner).type("form").send({ intent: "role", memberId: shop.users.owner.id, role: "planner" });
-    expect(demote.status).toBe(409);
-    expect(demote.text).toContain("at least one owner");
-    const remove = await request(server).post("/team").set("Cookie", owner).type("form").send({ intent: "remove", memberId: shop.users.owner.id });
-    expect(remove.status).toBe(409);
-    // With a second owner, the first may step down.
+    // The page never lets the owner touch their own row (next test), so the rule is held by the model.
+    await expect(changeMember(shop.id, shop.users.planner.id, shop.users.owner.id, "planner")).rejects.toBeInstanceOf(LastOwnerError);
+    await expect(changeMember(shop.id, shop.users.planner.id, shop.users.owner.id, null)).rejects.toBeInstanceOf(LastOwnerError);
+    // With a second owner, the first may be stepped down by the second.
     await request(server).post("/team").set("Cookie", owner).type("form").send({ intent: "role", memberId: shop.users.planner.id, role: "owner" });
-    const stepDown = await request(server).post("/team").set("Cookie", owner).type("form").send({ intent: "role", memberId: shop.users.owner.id, role: "planner" });
+    const second = await signIn(server, shop.users.planner);
+    const stepDown = await request(server).post("/team").set("Cookie", second).type("form").send({ intent: "role", memberId: shop.users.owner.id, role: "planner" });
     expect(stepDown.status).toBe(200);
+  });
+
+  it("an owner cannot remove themself or change their own role, even beside a second owner, and their own row offers neither", async () => {
+    const shop = await createShop();
+    const owner = await signIn(server, shop.users.owner);
+    await request(server).post("/team").set("Cookie", owner).type("form").send({ intent: "role", memberId: shop.users.planner.id, role: "owner" });
+    for (const change of [{ intent: "remove" }, { intent: "role", role: "sawyer" }]) {
+      const res = await request(server).post("/team").set("Cookie", owner).type("form").send({ ...change, memberId: shop.users.owner.id });
+      expect(res.status).toBe(409);
+      expect(visible(res.text)).toContain("You cannot change your own role or remove yourself from the shop. Another owner can do it for you.");
+    }
+    const [me] = await getDb().select().from(users).where(eq(users.id, shop.users.owner.id));
+    expect(me.role).toBe("owner");
+    const page = await request(server).get("/team").set("Cookie", owner); // still signed in
+    expect(page.status).toBe(200);
+    const row = (email: string) => {
+      const start = page.text.indexOf(`data-member="${email}"`);
+      return page.text.slice(start, page.text.indexOf("</li>", start));
+    };
+    expect(row(shop.users.owner.email)).not.toContain('name="intent"');
+    expect(visible(row(shop.users.owner.email))).toContain("another owner can change your role or remove you");
+    expect(row(shop.users.planner.email)).toContain('value="remove"');
+    expect(row(shop.users.planner.email)).toContain('value="role"');
   });
 
   it("names the bad field of a team form", async () => {
