@@ -2,6 +2,7 @@ import { and, asc, eq, gte, lt, sql } from "drizzle-orm";
 import { batchCosts, batches, materials } from "../../db/schema";
 import { getDb } from "~/db.server";
 import type { LedgerFigures } from "~/lib/ledger";
+import { fillTrend, trendMonths, type TrendMonth } from "~/lib/ledger-trend";
 
 export type LedgerRow = LedgerFigures & { batchId: string; batchNumber: number; materialId: string; materialName: string; cutAt: Date };
 
@@ -46,8 +47,9 @@ export async function batchCostDetail(shopId: string, batchId: string) {
   return row ?? null;
 }
 
-/** Yield and scrap cost per month, for the chart: sums in PostgreSQL, exact integers. */
-export async function monthlyTrend(shopId: string, months = 12) {
+/** Yield and scrap cost of each of the last `months` months (this one included), for the chart: sums in PostgreSQL, exact integers. */
+export async function monthlyTrend(shopId: string, now = new Date(), months = 12): Promise<TrendMonth[]> {
+  const shown = trendMonths(now, months);
   const rows = await getDb()
     .select({
       month: sql<string>`to_char(date_trunc('month', ${batchCosts.cutAt} at time zone 'UTC'), 'YYYY-MM')`,
@@ -57,10 +59,11 @@ export async function monthlyTrend(shopId: string, months = 12) {
       batches: sql<number>`count(*)::int`,
     })
     .from(batchCosts)
-    .where(and(eq(batchCosts.shopId, shopId), gte(batchCosts.cutAt, sql`now() - make_interval(months => ${months})`)))
+    .where(and(eq(batchCosts.shopId, shopId), gte(batchCosts.cutAt, new Date(`${shown[0]}-01T00:00:00Z`))))
     .groupBy(sql`1`)
     .orderBy(sql`1`);
-  return rows.map((r) => ({ month: r.month, batches: r.batches, yield: Number(r.stockAreaMm2) > 0 ? Number(r.partsAreaMm2) / Number(r.stockAreaMm2) : 0, scrapCostMinor: Number(r.scrapCostMinor) }));
+  const cut = rows.map((r) => ({ month: r.month, batches: r.batches, yield: Number(r.stockAreaMm2) > 0 ? Number(r.partsAreaMm2) / Number(r.stockAreaMm2) : 0, scrapCostMinor: Number(r.scrapCostMinor) }));
+  return fillTrend(shown, cut);
 }
 
 /** An order's material cost: its shares of the batches that cut its parts. */

@@ -8,6 +8,8 @@ import { batchScenario, cutBatch } from "../support/batch-factories";
 import { signIn } from "../support/factories";
 import { getDb } from "~/db.server";
 import { startPlanRunner, stopPlanRunner } from "~/jobs/plan-runner.server";
+import { trendMonths } from "~/lib/ledger-trend";
+import { monthlyTrend } from "~/models/ledger.server";
 
 const server = await appServer();
 const db = getDb();
@@ -87,5 +89,31 @@ describe("the ledger", () => {
     expect((await request(server).get("/ledger").set("Cookie", sawyer)).status).toBe(403);
     expect((await request(server).get("/api/ledger").set("Cookie", sawyer)).status).toBe(403);
     expect((await request(server).get("/ledger.csv").set("Cookie", sawyer)).status).toBe(403);
+  });
+});
+
+describe("the ledger chart", () => {
+  it("draws all twelve months, those without batches as empty, and counts a batch cut months ago in its own month", async () => {
+    const months = trendMonths(new Date());
+    const [first] = await db.select().from(t.batchCosts).where(eq(t.batchCosts.batchId, batchIds[0]));
+    const cutAt = first.cutAt;
+    const fourAgo = new Date(`${months[7]}-15T12:00:00Z`);
+    await db.update(t.batchCosts).set({ cutAt: fourAgo }).where(eq(t.batchCosts.batchId, batchIds[0]));
+    try {
+      const trend = await monthlyTrend(s.shop.id);
+      expect(trend.map((m) => m.month)).toEqual(months);
+      expect(trend.map((m) => m.batches)).toEqual([0, 0, 0, 0, 0, 0, 0, 1, 0, 0, 0, 1]);
+      expect(trend[7].scrapCostMinor).toBe(first.scrapCostMinor);
+      expect(trend.filter((m) => m.batches === 0).every((m) => m.scrapCostMinor === 0 && m.yield === null)).toBe(true);
+
+      const bookkeeper = await signIn(server, s.shop.users.bookkeeper);
+      const page = visible((await request(server).get("/ledger").set("Cookie", bookkeeper)).text);
+      const label = page.match(/aria-label="Yield and scrap cost per month: ([^"]*)"/)![1];
+      const drawn = label.split(", ");
+      expect(drawn.map((d) => d.slice(0, 7))).toEqual(months);
+      expect(drawn.filter((d) => d.endsWith("no batches"))).toHaveLength(10);
+    } finally {
+      await db.update(t.batchCosts).set({ cutAt }).where(eq(t.batchCosts.batchId, batchIds[0]));
+    }
   });
 });
