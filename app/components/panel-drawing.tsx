@@ -4,6 +4,7 @@
 // bottom of the drawing: a rectangle at plan (x, y) with extent (l, w) is drawn at SVG (x, W − y − w).
 import { useId, useState, type KeyboardEvent } from "react";
 import type { Cut, Rect, Setup, SheetPlan } from "~/lib/packing/types";
+import { inferTrim } from "~/lib/panel-look";
 import { formatLength, formatSize, type DisplayUnit } from "~/lib/units";
 
 export type PartLabel = {
@@ -36,14 +37,6 @@ const LINE_HEIGHT_EM = 1.2;
 
 const mmToUmRounded = (mm: number) => Math.round(mm * 1000);
 
-function inferTrim(sheet: SheetPlan): number {
-  if (!sheet.trimmed) return 0;
-  const starts: number[] = [];
-  for (const r of [...sheet.placements, ...sheet.offcuts, ...sheet.scrap]) starts.push(r.x, r.y);
-  for (const cut of sheet.cuts) starts.push(cut.from);
-  const least = starts.length ? Math.min(...starts) : 0;
-  return least > 0 && least < Math.min(sheet.length, sheet.width) / 2 ? least : 0;
-}
 
 /** wrapped: the lines are one name over two lines (not a name and a size) */
 type TextLayout = { font: number; lines: string[]; upright: boolean; wrapped?: boolean };
@@ -176,6 +169,7 @@ export function PanelDrawing({ sheet, labels, kerfMm, title, unit = "mm", trimMm
       >
         <title id={titleId}>{title}</title>
         <defs>
+          {/* Scrap's look, shared with the printed sheet: lib/panel-look.ts. */}
           <pattern id={hatchId} patternUnits="userSpaceOnUse" width={minText * 0.7} height={minText * 0.7} patternTransform="rotate(45)">
             <rect width={minText * 0.7} height={minText * 0.7} className="fill-bad-soft" />
             <line x1={0} y1={0} x2={0} y2={minText * 0.7} className="stroke-bad/50" strokeWidth={minText * 0.12} />

@@ -3,6 +3,7 @@
 // plan's y (up from the lower edge) drawn upwards.
 import PDFDocument from "pdfkit";
 import { PARTS_LEAD, type PanelView, type SetupRow, type SetupSheet } from "~/lib/setup-sheet";
+import { inferTrim, PANEL_LOOK } from "~/lib/panel-look";
 import { collect, PAPER, registerFonts, type Paper } from "./fonts.server";
 
 const MARGIN = 36;
@@ -13,7 +14,6 @@ const BAD = "#a12a2a";
 const PART_FILL = "#f6e3d4";
 const PART_STROKE = "#b8561d";
 const OFFCUT_FILL = "#d9e2ea";
-const SCRAP_FILL = "#e6e1d8";
 const RAIL = "#1f2d3a";
 
 type Doc = PDFKit.PDFDocument;
@@ -142,6 +142,18 @@ function fitLabel(doc: Doc, text: string, w: number, h: number): number | null {
   return null;
 }
 
+const HATCH_GAP = 3.5; // pt between hatch lines, at right angles to them
+
+/** Scrap as on screen: the pale red ground, then "/" lines clipped to the rectangle. */
+function hatchScrap(doc: Doc, x: number, y: number, w: number, h: number) {
+  doc.save().rect(x, y, w, h).fill(PANEL_LOOK.scrapGround);
+  doc.rect(x, y, w, h).clip();
+  const step = HATCH_GAP * Math.SQRT2; // along the top edge, for lines at 45°
+  for (let at = x + step / 2; at < x + w + h; at += step) doc.moveTo(at - h, y + h).lineTo(at, y);
+  doc.lineWidth(HATCH_GAP * PANEL_LOOK.scrapLineShare).strokeOpacity(PANEL_LOOK.scrapLineOpacity).stroke(PANEL_LOOK.scrapLine);
+  doc.restore();
+}
+
 function panelDrawing(s: Sheet, panel: PanelView, kerfMm: number) {
   const { doc } = s;
   const { sheet } = panel;
@@ -156,7 +168,12 @@ function panelDrawing(s: Sheet, panel: PanelView, kerfMm: number) {
   const X = (x: number) => x0 + x * scale;
   const Y = (y: number) => y0 + h - y * scale; // plan y up from the lower edge
 
-  doc.save().lineWidth(1.2).rect(x0, y0, w, h).fillAndStroke(SCRAP_FILL, RAIL).restore();
+  // The screen's look (lib/panel-look.ts): trim band, the panel inside it, scrap hatched.
+  const trim = inferTrim(sheet) * scale;
+  doc.save().rect(x0, y0, w, h).fillOpacity(PANEL_LOOK.trimBandOpacity).fill(PANEL_LOOK.trimBand).restore();
+  doc.save().rect(x0 + trim, y0 + trim, Math.max(0, w - 2 * trim), Math.max(0, h - 2 * trim)).fill(PANEL_LOOK.inside).restore();
+  doc.save().lineWidth(1.2).rect(x0, y0, w, h).stroke(RAIL).restore();
+  for (const r of sheet.scrap) hatchScrap(doc, X(r.x), Y(r.y + r.width), r.length * scale, r.width * scale);
   for (const o of sheet.offcuts) {
     doc.save().lineWidth(0.6).rect(X(o.x), Y(o.y + o.width), o.length * scale, o.width * scale).fillAndStroke(OFFCUT_FILL, RAIL).restore();
     const label = "offcut: rack it";
@@ -218,7 +235,7 @@ export async function setupSheetPdf(sheet: SetupSheet, kerfMm: number, paper: Pa
   for (const row of sheet.setups) setupBlock(s, row);
 
   s.heading("Panels, to scale");
-  s.text("Numbers are the cut order on each panel. Parts are labelled; blue pieces are offcuts to rack, grey is scrap.", { size: 9, color: MUTED, gap: 6 });
+  s.text("Numbers are the cut order on each panel. Parts are labelled; blue pieces are offcuts to rack, red hatching is scrap.", { size: 9, color: MUTED, gap: 6 });
   for (const panel of sheet.panels) panelDrawing(s, panel, kerfMm);
 
   s.heading("Offcuts to rack");

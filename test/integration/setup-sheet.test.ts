@@ -1,5 +1,5 @@
 import { execFileSync } from "node:child_process";
-import { mkdirSync, mkdtempSync, readdirSync, writeFileSync } from "node:fs";
+import { mkdirSync, mkdtempSync, readdirSync, readFileSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { and, eq, inArray } from "drizzle-orm";
@@ -58,6 +58,18 @@ const binary = (res: NodeJS.ReadableStream & { setEncoding(e: string): void }, d
   res.on("data", (c: Buffer) => chunks.push(Buffer.from(c)));
   res.on("end", () => done(null, Buffer.concat(chunks)));
 };
+/** Every pixel of every page at 60 dpi, from pdftoppm's plain PPM (P6: a text header, then RGB bytes). */
+function rasterPixels(file: string): [number, number, number][] {
+  const prefix = join(work, "raster");
+  execFileSync("pdftoppm", ["-r", "60", file, prefix]);
+  const pixels: [number, number, number][] = [];
+  for (const page of readdirSync(work).filter((f) => f.startsWith("raster") && f.endsWith(".ppm"))) {
+    const data = readFileSync(join(work, page));
+    const header = /^P6\s+(\d+)\s+(\d+)\s+255\s/.exec(data.subarray(0, 40).toString("latin1"))!;
+    for (let i = header[0].length; i + 2 < data.length; i += 3) pixels.push([data[i], data[i + 1], data[i + 2]]);
+  }
+  return pixels;
+}
 const text = (file: string) => execFileSync("pdftotext", ["-layout", file, "-"], { encoding: "utf8" });
 const flat = (s: string) => s.replace(/\s+/g, " ");
 const get = (path: string, cookie: string) => request(server).get(path).set("Cookie", cookie).buffer(true).parse(binary as never);
@@ -235,5 +247,13 @@ describe("golden set-up sheet of the demo batch (for review)", () => {
     expect(labels.status).toBe(200);
     execFileSync("pdftoppm", ["-r", "60", "-png", "-f", "1", "-l", "1", pdfOf(labels, "golden-labels"), join(dir, "labels-golden")]);
     expect(readdirSync(dir).some((f) => f.startsWith("setup-sheet-golden"))).toBe(true);
+
+    // Scrap looks as on screen (lib/panel-look.ts): the pale red ground with its hatch lines, and none
+    // of the old flat grey. The demo sheet has no sled warning, the one other pale red box.
+    const pixels = rasterPixels(join(work, "golden.pdf"));
+    const count = (test: (r: number, g: number, b: number) => boolean) => pixels.reduce((n, [r, g, b]) => n + (test(r, g, b) ? 1 : 0), 0);
+    expect(count((r, g, b) => r === 0xe6 && g === 0xe1 && b === 0xd8)).toBe(0);
+    expect(count((r, g, b) => r === 0xf8 && g === 0xde && b === 0xde)).toBeGreaterThan(200); // the ground between the lines
+    expect(count((r, g, b) => r > 170 && r < 235 && g > 100 && g < 180 && Math.abs(g - b) < 12 && r - g > 45)).toBeGreaterThan(100); // the lines: red at half strength on the ground
   });
 });
