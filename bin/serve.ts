@@ -6,12 +6,13 @@ import express from "express";
 import { constants as zlibConstants } from "node:zlib";
 import { extname } from "node:path";
 import { fileURLToPath } from "node:url";
+import { buildDirectory } from "../react-router.config";
 
 const root = fileURLToPath(new URL("..", import.meta.url));
 const port = Number(process.env.PORT ?? 3000);
 const host = process.env.HOST ?? "127.0.0.1";
 
-const buildDir = `${root}${process.env.STOPWISE_BUILD_DIR || "build"}`; // as in react-router.config.ts
+const buildDir = `${root}${buildDirectory}`;
 const build = await import(/* @vite-ignore */ `${buildDir}/server/index.js`);
 
 const app = express();

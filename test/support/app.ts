@@ -2,9 +2,9 @@
 import { createRequestListener } from "@react-router/node";
 import { createServer, type Server } from "node:http";
 import { fileURLToPath } from "node:url";
+import { buildDirectory } from "../../react-router.config";
 
-// The folder bin/test built into (react-router.config.ts reads the same variable).
-const buildPath = fileURLToPath(new URL(`../../${process.env.STOPWISE_BUILD_DIR || "build"}/server/index.js`, import.meta.url));
+const buildPath = fileURLToPath(new URL(`../../${buildDirectory}/server/index.js`, import.meta.url));
 
 export async function appServer(): Promise<Server> {
   const build = await import(/* @vite-ignore */ buildPath);
