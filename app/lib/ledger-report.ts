@@ -1,7 +1,7 @@
 // Turning cut batches into the bookkeeper's report: a period, rows per material, totals, CSV.
 import Papa from "papaparse";
 import { addDays, isIsoDate } from "./dates";
-import { formatArea } from "./ledger";
+import { areaHundredths, hundredthsDecimal } from "./ledger";
 
 export type Period = { from: string; to: string; label: string };
 
@@ -77,7 +77,7 @@ function decimal(minor: number, digits: number): string {
   return `${sign}${Math.floor(abs / 10 ** digits)}.${String(abs % 10 ** digits).padStart(digits, "0")}`;
 }
 
-const areaNumber = (mm2: number, unit: "mm" | "in") => formatArea(mm2, unit).split(" ")[0];
+const areaNumber = (mm2: number, unit: "mm" | "in") => hundredthsDecimal(areaHundredths(mm2, unit));
 
 /** A text cell that never runs as a spreadsheet formula (OWASP ASVS 5.0 V1.2.10): formula triggers get a leading quote. */
 export function spreadsheetSafe(text: string): string {

@@ -101,7 +101,23 @@ export function batchLedger(input: LedgerInput): BatchLedger {
   };
 }
 
-/** Square metres or square feet, to two places, for people (1 ft = 0.3048 m exactly). */
-export function formatArea(mm2: number, unit: "mm" | "in"): string {
-  return unit === "mm" ? `${(mm2 / 1e6).toFixed(2)} m²` : `${(mm2 / 92_903.04).toFixed(2)} ft²`;
+// The ledger's one rounding rule, on screen and in the CSV: an area is shown in hundredths of a square
+// metre or foot (1 ft = 0.3048 m exactly), rounded half up; a figure made of several areas (scrap and
+// kerf) is the sum of its parts as each is shown, so it always equals the CSV's cells added up.
+
+/** An area in whole hundredths of m² (or ft²), rounded half up. */
+export function areaHundredths(mm2: number, unit: "mm" | "in"): number {
+  return Math.round(mm2 / (unit === "mm" ? 10_000 : 929.0304));
+}
+
+/** Hundredths as a plain decimal, "1.80" (integer arithmetic, no float formatting). */
+export function hundredthsDecimal(hundredths: number): string {
+  const abs = Math.abs(hundredths);
+  return `${hundredths < 0 ? "-" : ""}${Math.floor(abs / 100)}.${String(abs % 100).padStart(2, "0")}`;
+}
+
+/** Square metres or square feet, to two places, for people. Several areas: each rounded, then added. */
+export function formatArea(mm2: number | number[], unit: "mm" | "in"): string {
+  const hundredths = (Array.isArray(mm2) ? mm2 : [mm2]).reduce((sum, a) => sum + areaHundredths(a, unit), 0);
+  return `${hundredthsDecimal(hundredths)} ${unit === "mm" ? "m²" : "ft²"}`;
 }

@@ -33,14 +33,17 @@ export default function Ledger({ loaderData }: Route.ComponentProps) {
   const report = data ?? loaderData.report;
   const { summary, batches, period, trend } = report;
   const money = (minor: number) => formatMoney(minor, currency);
-  const area = (mm2: number) => formatArea(mm2, unit);
-  const cells = (f: Figures) => [
+  // Areas add up the batches' rows as the CSV prints them (lib/ledger.ts, one rounding rule), so every
+  // figure here is the sum of the CSV's cells; money is exact in minor units anyway.
+  const area = (rows: typeof batches, ...fields: ("stockAreaMm2" | "partsAreaMm2" | "rackedAreaMm2" | "scrapAreaMm2" | "kerfLossMm2")[]) =>
+    formatArea(rows.flatMap((r) => fields.map((field) => r[field])), unit);
+  const cells = (f: Figures, rows: typeof batches) => [
     f.batches,
-    area(f.stockAreaMm2),
-    area(f.partsAreaMm2),
+    area(rows, "stockAreaMm2"),
+    area(rows, "partsAreaMm2"),
     `${(yieldOf(f) * 100).toFixed(1)} %`,
-    area(f.rackedAreaMm2),
-    area(f.scrapAreaMm2 + f.kerfLossMm2),
+    area(rows, "rackedAreaMm2"),
+    area(rows, "scrapAreaMm2", "kerfLossMm2"),
     money(f.costDrawnMinor),
     money(f.valueReturnedMinor),
     money(f.costDrawnMinor - f.valueReturnedMinor),
@@ -82,7 +85,7 @@ export default function Ledger({ loaderData }: Route.ComponentProps) {
               {summary.materials.map((m) => (
                 <tr key={m.materialId}>
                   <th className="px-3 py-2 font-medium">{m.materialName}</th>
-                  {cells(m).map((c, i) => (
+                  {cells(m, batches.filter((b) => b.materialId === m.materialId)).map((c, i) => (
                     <td key={i} className="whitespace-nowrap px-3 py-2 text-right tabular-nums">
                       {c}
                     </td>
@@ -100,7 +103,7 @@ export default function Ledger({ loaderData }: Route.ComponentProps) {
             <tfoot className="border-t-2 border-ink/30 font-semibold">
               <tr>
                 <th className="px-3 py-2">Total</th>
-                {cells(summary.total).map((c, i) => (
+                {cells(summary.total, batches).map((c, i) => (
                   <td key={i} className="whitespace-nowrap px-3 py-2 text-right tabular-nums">
                     {c}
                   </td>

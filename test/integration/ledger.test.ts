@@ -117,3 +117,42 @@ describe("the ledger chart", () => {
     }
   });
 });
+
+describe("the ledger's areas on screen and in the CSV", () => {
+  it("every area on the page, per material and in total, is the CSV's cells added up; scrap and kerf too", async () => {
+    const [a] = await db.select().from(t.batchCosts).where(eq(t.batchCosts.batchId, batchIds[0]));
+    const [b] = await db.select().from(t.batchCosts).where(eq(t.batchCosts.batchId, batchIds[1]));
+    // One batch alone in its month, with scrap 1.7949 m² and kerf 0.0149 m² (their exact sum would show 1.81).
+    const month = "2026-02";
+    await db.update(t.batchCosts).set({ cutAt: new Date(`${month}-10T12:00:00Z`), scrapAreaMm2: 1_794_900, kerfLossMm2: 14_900 }).where(eq(t.batchCosts.batchId, a.batchId));
+    try {
+      const bookkeeper = await signIn(server, s.shop.users.bookkeeper);
+      const csv = (await request(server).get(`/ledger.csv?month=${month}`).set("Cookie", bookkeeper)).text;
+      const [record] = parse(csv.split("\r\n").slice(1).join("\r\n"), { columns: true, skip_empty_lines: true }) as Record<string, string>[];
+      expect([record.scrap_m2, record.kerf_m2]).toEqual(["1.79", "0.01"]);
+      const page = visible((await request(server).get(`/ledger?month=${month}`).set("Cookie", bookkeeper)).text);
+      const total = page.slice(page.indexOf("<tfoot"), page.indexOf("</tfoot>"));
+      const cells = [...total.matchAll(/<td[^>]*>([^<]*)<\/td>/g)].map((m) => m[1]);
+      const heads = ["Batches", "Stock drawn", "Parts", "Yield", "Offcuts racked", "Scrap and kerf"];
+      expect(cells[heads.indexOf("Scrap and kerf")]).toBe("1.80 m²");
+      expect(cells[heads.indexOf("Stock drawn")]).toBe(`${record.stock_m2} m²`);
+
+      // Two batches of 2.9768 m² each: 2.98 + 2.98 in the CSV, so 5.96 on the page (not 5.95 from the exact sum).
+      await db.update(t.batchCosts).set({ cutAt: new Date(`${month}-11T12:00:00Z`) }).where(eq(t.batchCosts.batchId, batchIds[1]));
+      const records = parse((await request(server).get(`/ledger.csv?month=${month}`).set("Cookie", bookkeeper)).text.split("\r\n").slice(1).join("\r\n"), { columns: true, skip_empty_lines: true }) as Record<string, string>[];
+      expect(records).toHaveLength(2);
+      const added = (...columns: string[]) => `${(records.reduce((n, r) => n + columns.reduce((m, c) => m + Math.round(Number(r[c]) * 100), 0), 0) / 100).toFixed(2)} m²`;
+      const both = visible((await request(server).get(`/ledger?month=${month}`).set("Cookie", bookkeeper)).text);
+      for (const section of [both.slice(both.indexOf("<tbody"), both.indexOf("</tbody>")), both.slice(both.indexOf("<tfoot"), both.indexOf("</tfoot>"))]) {
+        const shown = [...section.matchAll(/<td[^>]*>([^<]*)<\/td>/g)].map((m) => m[1]);
+        expect(shown[heads.indexOf("Stock drawn")]).toBe(added("stock_m2"));
+        expect(shown[heads.indexOf("Parts")]).toBe(added("parts_m2"));
+        expect(shown[heads.indexOf("Offcuts racked")]).toBe(added("offcuts_racked_m2"));
+        expect(shown[heads.indexOf("Scrap and kerf")]).toBe(added("scrap_m2", "kerf_m2"));
+      }
+    } finally {
+      await db.update(t.batchCosts).set({ cutAt: a.cutAt, scrapAreaMm2: a.scrapAreaMm2, kerfLossMm2: a.kerfLossMm2 }).where(eq(t.batchCosts.batchId, a.batchId));
+      await db.update(t.batchCosts).set({ cutAt: b.cutAt }).where(eq(t.batchCosts.batchId, b.batchId));
+    }
+  });
+});

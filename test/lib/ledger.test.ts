@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
-import { batchLedger, splitByWeight } from "~/lib/ledger";
+import { areaHundredths, batchLedger, formatArea, splitByWeight } from "~/lib/ledger";
 
 describe("a hand-worked batch", () => {
   // Two full sheets of 2440 × 1220 mm at £52.90 and one racked offcut of 1000 × 500 mm drawn.
@@ -66,6 +66,30 @@ describe("splitByWeight", () => {
           expect(p).toBeGreaterThanOrEqual(0);
           if (sum > 0) expect(Math.abs(p - (total * weights[i]) / sum)).toBeLessThan(1);
         });
+      }),
+    );
+  });
+});
+
+describe("the ledger's one rounding rule (screen and CSV)", () => {
+  it("rounds each area to hundredths half up, and a figure of several areas is the sum of them as shown", () => {
+    expect(areaHundredths(1_794_900, "mm")).toBe(179); // 1.7949 m²
+    expect(areaHundredths(14_900, "mm")).toBe(1); // 0.0149 m²
+    expect(areaHundredths(5_000, "mm")).toBe(1); // 0.005 m², half up
+    expect(areaHundredths(4_999, "mm")).toBe(0);
+    expect(areaHundredths(92_903, "in")).toBe(100); // 92,903.04 mm² is 1 ft²
+    expect(formatArea(1_794_900, "mm")).toBe("1.79 m²");
+    // Scrap 1.7949 m² and kerf 0.0149 m²: "1.80", as 1.79 + 0.01 in the CSV, not 1.81 from the exact sum.
+    expect(formatArea([1_794_900, 14_900], "mm")).toBe("1.80 m²");
+    expect(formatArea(1_794_900 + 14_900, "mm")).toBe("1.81 m²");
+    expect(formatArea(0, "in")).toBe("0.00 ft²");
+  });
+
+  it("a combined figure always equals its parts' shown values added, for any areas", () => {
+    fc.assert(
+      fc.property(fc.array(fc.integer({ min: 0, max: 50_000_000 }), { minLength: 1, maxLength: 4 }), fc.constantFrom("mm" as const, "in" as const), (areas, unit) => {
+        const parts = areas.map((a) => Number(formatArea(a, unit).split(" ")[0]) * 100);
+        expect(Math.round(Number(formatArea(areas, unit).split(" ")[0]) * 100)).toBe(Math.round(parts.reduce((s, p) => s + p, 0)));
       }),
     );
   });
