@@ -5,6 +5,7 @@ export default [
   route("api/me", "routes/api.me.ts"),
   route("api/orders", "routes/api.orders.ts"),
   route("api/ledger", "routes/api.ledger.ts"),
+  route("api/customers", "routes/api.customers.ts"),
   route("ledger.csv", "routes/ledger.csv.ts"),
   route("ledger/deposits.csv", "routes/ledger.deposits.csv.ts"),
   route("webhooks/payments", "routes/webhooks.payments.ts"),

@@ -3,7 +3,8 @@ import { data, Form, Link, redirect } from "react-router";
 import type { Route } from "./+types/orders.$orderId";
 import { hasPermission, requirePermission } from "~/auth.server";
 import { DepositPanel } from "~/components/deposit-panel";
-import { Field, FormAlert, SelectField, SubmitButton } from "~/components/forms";
+import { CustomerPicker } from "~/components/customer-picker";
+import { Field, FormAlert, SubmitButton } from "~/components/forms";
 import { OrderLineFields } from "~/components/order-line-fields";
 import { PageHeader } from "~/components/page-header";
 import { StatusBadge } from "~/components/status-badge";
@@ -19,7 +20,7 @@ import { depositLink, sendConfirmation, sendDepositRequest } from "~/models/conf
 import { DepositError, openDeposit, orderDeposit, orderMoves, proposedDeposit, proposedDepositRefusal, refundDeposit } from "~/models/deposits.server";
 import { publicOrigin } from "~/mail.server";
 import { paymentErrorMessage, paymentsConfigured } from "~/payments.server";
-import { customerChoices } from "~/models/customers.server";
+import { chooseCustomer, searchCustomers } from "~/models/customers.server";
 import { readOrderForm, withStoredArtwork } from "~/models/order-input.server";
 import { addLines, getOrder, moveOrder, OrderStateError, productChoices, removeLine, updateHeader, updateLineTexts } from "~/models/orders.server";
 import { orderMaterialCost } from "~/models/ledger.server";
@@ -39,7 +40,7 @@ export async function loader(args: Route.LoaderArgs) {
     Promise.all([
       getShop(user.shopId),
       canWrite ? productChoices(user.shopId) : [],
-      canWrite ? customerChoices(user.shopId) : [],
+      canWrite ? searchCustomers(user.shopId, "") : [],
       can(user.role, "ledger:read") ? orderMaterialCost(user.shopId, order.id) : null,
       seesDeposits ? orderDeposit(user.shopId, order.id) : null,
       seesDeposits ? orderMoves(user.shopId, order.id) : [],
@@ -61,8 +62,8 @@ export async function loader(args: Route.LoaderArgs) {
         canRefund: hasPermission(user.role, "deposits:refund"),
       }
     : null;
-  // The customer list feeds one <select>: names only (a large shop has hundreds).
-  return { order, currency: shop.currency, canWrite, products, customers: customers.map(({ id, name }) => ({ id, name })), materialCost, deposits: depositView };
+  // The customer picker gets the first few by name; typing asks /api/customers for the rest.
+  return { order, currency: shop.currency, canWrite, products, customers, materialCost, deposits: depositView };
 }
 
 const ActionSchema = v.variant("intent", [
@@ -157,8 +158,12 @@ export async function action(args: Route.ActionArgs) {
         break;
       }
       case "header": {
-        const header = parseForm(OrderHeaderSchema, fields);
-        if (!header.ok) return data({ errors: header.errors, values: fields, intent: input.intent }, { status: 400 });
+        const customer = await chooseCustomer(user.shopId, fields.customerId, fields.customer);
+        const header = parseForm(OrderHeaderSchema, { ...fields, customerId: customer.ok ? customer.id : "" });
+        if (!header.ok || !customer.ok) {
+          const errors: Record<string, string> = { ...(header.ok ? {} : header.errors), ...(customer.ok ? {} : { customerId: customer.message }) };
+          return data({ errors, values: fields, intent: input.intent, suggestions: customer.ok ? [] : customer.suggestions }, { status: 400 });
+        }
         const current = await getOrder(user.shopId, orderId);
         if (!current) throw notFound();
         const found = await updateHeader(user.shopId, orderId, { ...header.data, dueDate: header.data.dueDate || current.dueDate });
@@ -185,6 +190,8 @@ export default function OrderPage({ loaderData, actionData }: Route.ComponentPro
   const { order, currency, canWrite, products, customers, materialCost, deposits } = loaderData;
   const depositRefusal = deposits?.proposedMinor ? unchargeableDeposit(deposits.proposedMinor, currency) : null;
   const errors: Record<string, string> = actionData?.errors ?? {};
+  // The customers a refused header form matched: its picker suggests them.
+  const refusedCustomer = actionData && "suggestions" in actionData ? (actionData.suggestions as typeof customers) : undefined;
   const editable = canWrite && linesEditable(order.status);
   return (
     <div className="space-y-6">
@@ -324,13 +331,14 @@ export default function OrderPage({ loaderData, actionData }: Route.ComponentPro
           <summary className="cursor-pointer font-semibold">Change customer, dates or notes</summary>
           <Form method="post" encType="multipart/form-data" className="mt-4 grid gap-4 md:grid-cols-3" noValidate>
             <input type="hidden" name="intent" value="header" />
-            <SelectField label="Customer" name="customerId" defaultValue={order.customerId} error={errors.customerId} className="md:col-span-3">
-              {customers.map((c) => (
-                <option key={c.id} value={c.id}>
-                  {c.name}
-                </option>
-              ))}
-            </SelectField>
+            <CustomerPicker
+              key={actionData?.intent === "header" ? JSON.stringify(actionData.values.customer) : order.customerId}
+              chosen={{ id: order.customerId, name: order.customerName, email: order.customerEmail }}
+              text={actionData?.intent === "header" ? actionData.values.customer : undefined}
+              suggestions={refusedCustomer?.length ? refusedCustomer : customers}
+              error={actionData?.intent === "header" ? errors.customerId : undefined}
+              className="md:col-span-3"
+            />
             <Field label="Event date" name="eventDate" type="date" defaultValue={order.eventDate} error={errors.eventDate} />
             <Field label="Due date" name="dueDate" type="date" defaultValue={order.dueDate} error={errors.dueDate} />
             <Field label="Notes" name="notes" defaultValue={order.notes} error={errors.notes} />

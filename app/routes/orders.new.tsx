@@ -2,34 +2,43 @@ import { useState } from "react";
 import { data, Form, Link, redirect } from "react-router";
 import type { Route } from "./+types/orders.new";
 import { requirePermission } from "~/auth.server";
-import { Field, FormAlert, SelectField, SubmitButton } from "~/components/forms";
+import { CustomerPicker } from "~/components/customer-picker";
+import { Field, FormAlert, SubmitButton } from "~/components/forms";
 import { OrderLineFields } from "~/components/order-line-fields";
 import { PageHeader } from "~/components/page-header";
 import { defaultDueDate } from "~/lib/dates";
 import { parseForm } from "~/lib/forms";
 import { checkLines, rawLinesFrom } from "~/lib/order-lines";
 import { OrderHeaderSchema } from "~/lib/order-schema";
-import { customerChoices } from "~/models/customers.server";
+import { chooseCustomer, getCustomer, hasCustomers, searchCustomers } from "~/models/customers.server";
 import { readOrderForm, withStoredArtwork } from "~/models/order-input.server";
 import { createOrder, OrderStateError, productChoices } from "~/models/orders.server";
 import { getShop } from "~/models/shops.server";
 
 export async function loader(args: Route.LoaderArgs) {
   const user = requirePermission(args, "orders:write");
-  const [customers, products, shop] = await Promise.all([customerChoices(user.shopId), productChoices(user.shopId), getShop(user.shopId)]);
-  const customerId = new URL(args.request.url).searchParams.get("customer") ?? "";
-  return { customers, products, currency: shop.currency, customerId };
+  const named = new URL(args.request.url).searchParams.get("customer") ?? "";
+  const [anyCustomer, suggestions, chosen, products, shop] = await Promise.all([
+    hasCustomers(user.shopId),
+    searchCustomers(user.shopId, ""),
+    /^[0-9a-f-]{36}$/i.test(named) ? getCustomer(user.shopId, named) : null,
+    productChoices(user.shopId),
+    getShop(user.shopId),
+  ]);
+  return { anyCustomer, suggestions, chosen: chosen && { id: chosen.id, name: chosen.name, email: chosen.email }, products, currency: shop.currency };
 }
 
 export async function action(args: Route.ActionArgs) {
   const user = requirePermission(args, "orders:write");
   const { fields, entries } = await readOrderForm(args.request);
   const products = await productChoices(user.shopId);
-  const header = parseForm(OrderHeaderSchema, fields);
+  const customer = await chooseCustomer(user.shopId, fields.customerId, fields.customer);
+  const header = parseForm(OrderHeaderSchema, { ...fields, customerId: customer.ok ? customer.id : "" });
   const lines = checkLines(rawLinesFrom(entries), new Set(products.map((p) => p.id)));
-  const errors = { ...(header.ok ? {} : header.errors), ...(lines.ok ? {} : lines.errors) };
+  const errors: Record<string, string> = { ...(header.ok ? {} : header.errors), ...(customer.ok ? {} : { customerId: customer.message }), ...(lines.ok ? {} : lines.errors) };
   if (lines.ok && lines.lines.length === 0) errors.lines = "Add at least one line: a product and its quantity.";
-  if (!header.ok || !lines.ok || Object.keys(errors).length) return data({ errors, values: fields }, { status: 400 });
+  const suggestions = customer.ok ? [] : customer.suggestions;
+  if (!header.ok || !lines.ok || Object.keys(errors).length) return data({ errors, values: fields, suggestions }, { status: 400 });
 
   const leadTimes = lines.lines.map((l) => products.find((p) => p.id === l.productId)?.leadTimeDays ?? null);
   const dueDate = header.data.dueDate || defaultDueDate(header.data.eventDate, leadTimes);
@@ -37,13 +46,13 @@ export async function action(args: Route.ActionArgs) {
     const order = await withStoredArtwork(lines.lines, (newLines) => createOrder(user.shopId, { ...header.data, dueDate }, newLines));
     return redirect(`/orders/${order.id}`);
   } catch (error) {
-    if (error instanceof OrderStateError) return data({ errors: { form: error.message }, values: fields }, { status: 400 });
+    if (error instanceof OrderStateError) return data({ errors: { form: error.message } as Record<string, string>, values: fields, suggestions }, { status: 400 });
     throw error;
   }
 }
 
 export default function NewOrder({ loaderData, actionData }: Route.ComponentProps) {
-  const { customers, products, currency, customerId } = loaderData;
+  const { anyCustomer, suggestions, chosen, products, currency } = loaderData;
   const errors: Record<string, string> = actionData?.errors ?? {};
   const values = actionData?.values;
   const submittedLines = values ? Math.max(1, ...Object.keys(values).map((k) => /^line-(\d+)-/.exec(k)).filter(Boolean).map((m) => Number(m![1]) + 1)) : 1;
@@ -59,22 +68,21 @@ export default function NewOrder({ loaderData, actionData }: Route.ComponentProp
           {errors.form ?? errors.lines ?? "Some fields need another look; they are marked below."} Files you chose must be chosen again.
         </FormAlert>
       )}
-      {customers.length === 0 ? (
+      {!anyCustomer ? (
         <FormAlert tone="warn">
           Add a customer first: <Link to="/customers/new" className="underline">new customer</Link>.
         </FormAlert>
       ) : (
         <Form method="post" encType="multipart/form-data" className="space-y-6" noValidate>
           <div className="grid gap-4 rounded-lg border border-line bg-card p-4 md:grid-cols-3">
-            <SelectField label="Customer" name="customerId" defaultValue={values?.customerId ?? customerId} error={errors.customerId} className="md:col-span-3">
-              <option value="">Choose…</option>
-              {customers.map((c) => (
-                <option key={c.id} value={c.id}>
-                  {c.name}
-                  {c.email ? ` (${c.email})` : ""}
-                </option>
-              ))}
-            </SelectField>
+            <CustomerPicker
+              key={actionData ? JSON.stringify(values?.customer) : "loaded"}
+              chosen={chosen}
+              text={values?.customer}
+              suggestions={actionData?.suggestions.length ? actionData.suggestions : suggestions}
+              error={errors.customerId}
+              className="md:col-span-3"
+            />
             <Field label="Event date" name="eventDate" type="date" required defaultValue={values?.eventDate} error={errors.eventDate} />
             <Field label="Due date" name="dueDate" type="date" defaultValue={values?.dueDate} error={errors.dueDate} hint="Empty: the longest lead time of the products before the event." />
             <Field label="Notes" name="notes" defaultValue={values?.notes} error={errors.notes} />

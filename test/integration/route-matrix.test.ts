@@ -42,6 +42,7 @@ const MATRIX: Record<string, Entry> = {
   "/reset-password/:token": { get: all(200), post: all(400), sample: "/reset-password/not-a-real-token" },
   "/invitation/:token": { get: all(200), post: all(400), sample: "/invitation/not-a-real-token" },
   "/": { get: page("owner", "planner", "sawyer", "bookkeeper"), post: NO_ACTION },
+  "/api/customers": { get: { ...page("owner", "planner", "bookkeeper"), signedOut: 401 }, post: NO_ACTION },
   "/api/orders": { get: { ...page("owner", "planner", "bookkeeper"), signedOut: 401 }, post: NO_ACTION },
   "/orders": { get: page("owner", "planner", "bookkeeper"), post: NO_ACTION },
   "/orders/new": { get: page("owner"), post: { ...page("owner"), owner: 400 } },
