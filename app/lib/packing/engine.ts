@@ -20,6 +20,7 @@ import {
   type StockSlot,
 } from "./search";
 import { deriveSetups } from "./setups";
+import { tileToBound } from "./tiling";
 import type { Job, PackOptions, Plan, Rect, SheetPlan, Unplaced } from "./types";
 import { mmToUm, um2ToMm2, umToMm } from "./units";
 import { validatePlan } from "./validate";
@@ -51,6 +52,9 @@ const FULLEST_NODES = 200;
 /** stages-0 jobs of at most this many parts on one kind of panel get the complete search, for this share of the budget */
 const COMPLETE_MAX_PARTS = 40;
 const COMPLETE_SHARE = 0.3;
+/** the tiling search (tiling.ts): its share of the budget and its node limit */
+const TILING_SHARE = 0.25;
+const TILING_NODES = 400_000;
 
 /** Share of the parts that are long and thin on some panel: longer than half of it one way, at most half the other way. */
 function longThinShare(prep: Prepared): number {
@@ -362,6 +366,16 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
     const stopAt = now() + budget * COMPLETE_SHARE;
     ({ best, bound } = provePanels(prep, best, lb, () => now() > stopAt, variants[0]));
     if (best.bins.length <= bound) cands.push(best);
+    input.lowerBound = bound;
+  }
+  // many parts that (nearly) tile whole panels: the tiling search fills the bound's panels one by one
+  if (job.stages === 0 && prep.slots.length === 1 && best.left.every((n) => n === 0) && best.bins.length > bound) {
+    const r = tileToBound(prep.slots[0].ctx, prep.demand, bound, now, now() + budget * TILING_SHARE, TILING_NODES);
+    if (r.panels) {
+      best = { bins: r.panels.map(({ placed, counts }) => ({ s: 0, counts, placed, load: placed.reduce((a, p) => a + weight[p.t], 0), v: variants[0] })), left: new Int32Array(prep.demand.length) };
+      cands.push(best);
+    }
+    bound = Math.max(bound, r.bound);
     input.lowerBound = bound;
   }
   options.onProgress?.({ bestSheets: best.bins.length });
