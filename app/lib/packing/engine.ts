@@ -55,6 +55,8 @@ const COMPLETE_SHARE = 0.3;
 /** the tiling search (tiling.ts): its share of the budget and its node limit */
 const TILING_SHARE = 0.25;
 const TILING_NODES = 400_000;
+/** it runs where the bound's panels hold at least this many parts each on average (a few big parts per panel are the exact fills' domain) */
+const TILING_MIN_PER_PANEL = 10;
 
 /** Share of the parts that are long and thin on some panel: longer than half of it one way, at most half the other way. */
 function longThinShare(prep: Prepared): number {
@@ -369,7 +371,7 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
     input.lowerBound = bound;
   }
   // many parts that (nearly) tile whole panels: the tiling search fills the bound's panels one by one
-  if (job.stages === 0 && prep.slots.length === 1 && best.left.every((n) => n === 0) && best.bins.length > bound) {
+  if (job.stages === 0 && prep.slots.length === 1 && totalParts >= TILING_MIN_PER_PANEL * bound && best.left.every((n) => n === 0) && best.bins.length > bound) {
     const r = tileToBound(prep.slots[0].ctx, prep.demand, bound, now, now() + budget * TILING_SHARE, TILING_NODES);
     if (r.panels) {
       best = { bins: r.panels.map(({ placed, counts }) => ({ s: 0, counts, placed, load: placed.reduce((a, p) => a + weight[p.t], 0), v: variants[0] })), left: new Int32Array(prep.demand.length) };

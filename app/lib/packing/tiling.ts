@@ -441,7 +441,7 @@ export function tileExactly(ctx: BinContext, avail: Int32Array, opts: { stop?: (
 /** the tiling search applies where the panels at the bound would keep at most this share as waste */
 export const TILING_MAX_SLACK = 0.03;
 /** share of the time the exact bottom-up search gets before the corner search */
-const EXACT_SHARE = 0.4;
+const EXACT_SHARE = 0.7;
 /** shuffled dives of the corner search: nodes each, and most of them per panel */
 const DIVE_NODES = 3000;
 const MAX_DIVES = 2000;
