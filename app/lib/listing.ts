@@ -15,7 +15,8 @@ export function parseListQuery<TSort extends string>(
   const sort = sortParam && options.sorts.includes(sortParam) ? sortParam : options.defaultSort;
   const dirParam = params.get("dir");
   const dir = dirParam === "asc" || dirParam === "desc" ? dirParam : (options.defaultDir ?? "asc");
-  const q = (params.get("q") ?? "").trim().slice(0, 200);
+  // NUL is dropped: no stored text holds one, and PostgreSQL refuses it in a query parameter.
+  const q = (params.get("q") ?? "").replace(/\u0000/g, "").trim().slice(0, 200);
   const filters: Record<string, string> = {};
   for (const [name, allowed] of Object.entries(options.filters ?? {})) {
     const value = params.get(name);

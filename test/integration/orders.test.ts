@@ -59,6 +59,13 @@ describe("customers", () => {
     expect(row.name).toBe("Brindle and Bean");
   });
 
+  it("a search with a NUL character in it lists as without it, never a 500", async () => {
+    for (const path of ["/orders", "/api/orders"]) expect((await request(server).get(`${path}?q=Ardent%00`).set("Cookie", owner)).status).toBe(200);
+    const found = await request(server).get("/customers?q=Ardent%00").set("Cookie", owner);
+    expect(found.status).toBe(200);
+    expect(found.text).toContain("Ardent–Vasquez wedding");
+  });
+
   it("a bookkeeper reads customers but cannot change them", async () => {
     const bookkeeper = await signIn(server, shop.users.bookkeeper);
     expect((await request(server).get(`/customers/${catalogue.customer.id}`).set("Cookie", bookkeeper)).status).toBe(200);
