@@ -58,6 +58,7 @@ export async function loader(args: Route.LoaderArgs) {
     unit,
     currency: shop.currency,
     canSeeFloor: can(user.role, "floor:read"),
+    canReadLedger: can(user.role, "ledger:read"),
   };
 }
 
@@ -325,7 +326,25 @@ export default function BatchPage({ loaderData, actionData }: Route.ComponentPro
 
       <section className="space-y-3">
         <h2 className="text-xl font-semibold">Plans</h2>
-        {plans.length === 0 && <p className="text-muted">No plans yet.</p>}
+        {plans.length === 0 &&
+          (batch.status === "cut" ? (
+            // a batch recorded as cut without its plan (the demo's history): its figures are in the ledger
+            <p className="text-muted">
+              No plan is kept for this batch.
+              {loaderData.canReadLedger && (
+                <>
+                  {" "}
+                  Its cost and scrap are in the{" "}
+                  <Link className="font-medium text-edge underline" to={`/ledger/batches/${batch.id}`}>
+                    ledger
+                  </Link>
+                  .
+                </>
+              )}
+            </p>
+          ) : (
+            <p className="text-muted">No plans yet.</p>
+          ))}
         <ul className="grid gap-3 md:grid-cols-2">
           {plans.map((p) => (
             <li key={p.id}>

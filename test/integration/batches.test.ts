@@ -129,6 +129,22 @@ describe("proposing and adjusting batches", () => {
     expect((await request(server).post(`/batches/${six.id}`).set("Cookie", stranger).type("form").send({ intent: "run-plan", kerfMm: "3.2", trimMm: "10", seconds: "1", stages: "2", objective: "sheets" })).status).toBe(404);
     expect((await request(server).get(`/api/batches/${six.id}/plans`).set("Cookie", stranger)).status).toBe(404);
   });
+
+  it("a batch recorded as cut without a plan says so, and points those who read the ledger to its figures", async () => {
+    const [id] = await createBatchFor(s.shop.id, s.birch6.id);
+    const page = async (cookie: string) => visible((await request(server).get(`/batches/${id}`).set("Cookie", cookie)).text);
+    const owner = await signIn(server, s.shop.users.owner);
+    const planner = await signIn(server, s.shop.users.planner);
+    expect(await page(owner)).toContain("No plans yet.");
+    await db.update(t.batches).set({ status: "cut", releasedAt: new Date(), cutAt: new Date() }).where(eq(t.batches.id, id));
+    const forOwner = await page(owner);
+    expect(forOwner).not.toContain("No plans yet.");
+    expect(forOwner).toContain("No plan is kept for this batch. Its cost and scrap are in the");
+    expect(forOwner).toContain(`href="/ledger/batches/${id}"`);
+    const forPlanner = await page(planner);
+    expect(forPlanner).toContain("No plan is kept for this batch.");
+    expect(forPlanner).not.toContain(`/ledger/batches/${id}`);
+  });
 });
 
 async function createBatchFor(shopId: string, materialId: string) {
