@@ -6,6 +6,7 @@
 import { useId, useState } from "react";
 import useSWR from "swr";
 import { customerLabel } from "~/lib/customer-schema";
+import { Field } from "./forms";
 
 type Customer = { id: string; name: string; email: string };
 
@@ -37,7 +38,6 @@ export function CustomerPicker({ chosen, suggestions, text: postedText, error, c
   });
   const options = data ?? suggestions;
   const fieldId = "field-customerId"; // the field the server's message names
-  const hintId = `${fieldId}-hint`;
 
   const onChange = (value: string) => {
     setText(value);
@@ -45,13 +45,11 @@ export function CustomerPicker({ chosen, suggestions, text: postedText, error, c
   };
 
   return (
-    <div className={`space-y-1 ${className}`}>
-      <label htmlFor={fieldId} className="block text-sm font-medium">
-        Customer
-      </label>
-      <input
-        id={fieldId}
+    <>
+      <Field
+        label="Customer"
         name="customer"
+        id={fieldId}
         type="text"
         list={listId}
         value={text}
@@ -59,9 +57,9 @@ export function CustomerPicker({ chosen, suggestions, text: postedText, error, c
         autoComplete="off"
         spellCheck={false}
         placeholder="Type part of a name or e-mail"
-        aria-invalid={error ? true : undefined}
-        aria-describedby={[error ? `${fieldId}-error` : null, hintId].filter(Boolean).join(" ")}
-        className={`block w-full rounded-md border bg-white px-3 py-2.5 text-base outline-none focus:border-edge focus:ring-2 focus:ring-edge/30 ${error ? "border-bad" : "border-line"}`}
+        error={error}
+        hint={picked ? `Chosen: ${customerLabel(picked)}.` : "Pick a suggestion, or type a customer's name as it is saved."}
+        className={className}
       />
       <input type="hidden" name="customerId" value={picked?.id ?? ""} />
       <datalist id={listId}>
@@ -69,14 +67,6 @@ export function CustomerPicker({ chosen, suggestions, text: postedText, error, c
           <option key={c.id} value={customerLabel(c)} />
         ))}
       </datalist>
-      <p id={hintId} className="text-sm text-muted">
-        {picked ? `Chosen: ${customerLabel(picked)}.` : "Pick a suggestion, or type a customer's name as it is saved."}
-      </p>
-      {error && (
-        <p id={`${fieldId}-error`} className="text-sm font-medium text-bad">
-          {error}
-        </p>
-      )}
-    </div>
+    </>
   );
 }

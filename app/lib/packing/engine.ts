@@ -2,13 +2,14 @@
 import { areaBound, bigItemBound, dffBound, type BoundItem } from "./bounds";
 import { COMPLETE_MAX_PER_PANEL, completeSearch } from "./complete";
 import { ExactFit } from "./exact";
-import type { BinContext, FillParams, GuillotineParams, Orient } from "./fill";
+import type { BinContext, FillParams, GuillotineParams, Orient, Placed } from "./fill";
 import { goalDrivenGuillotine } from "./goal";
 import { layoutPanel, type RectUm } from "./layout";
 import { fullestConstructive, poolSearch, poolSearchApplies } from "./pool";
 import { mulberry32 } from "./prng";
 import {
   basicKey,
+  type Bin,
   constructive,
   downsize,
   fullSheets,
@@ -173,7 +174,7 @@ export function lowerBound(prep: Prepared, counts: Int32Array): number {
  * Complete search (complete.ts) from the bound up: each panel count it proves impossible raises
  * the bound; a count it can fill gives a plan on that many panels. Stops at its deadline.
  */
-function provePanels(prep: Prepared, best: Solution, bound: number, stop: () => boolean, fallback: FillParams): { best: Solution; bound: number } {
+function provePanels(prep: Prepared, best: Solution, bound: number, stop: () => boolean, toBin: (placed: Placed[]) => Bin): { best: Solution; bound: number } {
   const slot = prep.slots[0];
   while (bound < best.bins.length && bound <= slot.quantity) {
     const r = completeSearch(slot.ctx, prep.demand, bound, stop);
@@ -183,17 +184,7 @@ function provePanels(prep: Prepared, best: Solution, bound: number, stop: () => 
       continue;
     }
     const exact = new ExactFit(slot.ctx, COMPLETE_MAX_PER_PANEL);
-    const nT = prep.demand.length;
-    const bins = r.panels.map((items) => {
-      const counts = new Int32Array(nT);
-      let load = 0;
-      for (const t of items) {
-        counts[t]++;
-        load += exact.area[t];
-      }
-      return { s: 0, counts, placed: exact.place(items)!, load, v: fallback };
-    });
-    return { best: { bins, left: new Int32Array(nT) }, bound };
+    return { best: { bins: r.panels.map((items) => toBin(exact.place(items)!)), left: new Int32Array(prep.demand.length) }, bound };
   }
   return { best, bound };
 }
@@ -362,19 +353,30 @@ export function pack(job: Job, options: PackOptions = {}): Plan {
   }
   let best = cands[0];
   for (const c of cands) if (lexLess(basicKey(c, prep.slots), basicKey(best, prep.slots))) best = c;
-  // a few parts on one kind of panel: prove the panel count, or find the plan that meets the bound
+  // the exact searches below work on one kind of panel (stages 0) while the plan is above the bound
   let bound = lb;
-  if (job.stages === 0 && prep.slots.length === 1 && totalParts <= COMPLETE_MAX_PARTS && best.left.every((n) => n === 0) && best.bins.length > lb) {
+  const aboveBound = () => job.stages === 0 && prep.slots.length === 1 && best.left.every((n) => n === 0) && best.bins.length > bound;
+  const toBin = (placed: Placed[]): Bin => {
+    const counts = new Int32Array(prep.demand.length);
+    let load = 0;
+    for (const p of placed) {
+      counts[p.t]++;
+      load += weight[p.t];
+    }
+    return { s: 0, counts, placed, load, v: variants[0] };
+  };
+  // a few parts: prove the panel count, or find the plan that meets the bound
+  if (aboveBound() && totalParts <= COMPLETE_MAX_PARTS) {
     const stopAt = now() + budget * COMPLETE_SHARE;
-    ({ best, bound } = provePanels(prep, best, lb, () => now() > stopAt, variants[0]));
+    ({ best, bound } = provePanels(prep, best, lb, () => now() > stopAt, toBin));
     if (best.bins.length <= bound) cands.push(best);
     input.lowerBound = bound;
   }
   // many parts that (nearly) tile whole panels: the tiling search fills the bound's panels one by one
-  if (job.stages === 0 && prep.slots.length === 1 && totalParts >= TILING_MIN_PER_PANEL * bound && best.left.every((n) => n === 0) && best.bins.length > bound) {
+  if (aboveBound() && totalParts >= TILING_MIN_PER_PANEL * bound) {
     const r = tileToBound(prep.slots[0].ctx, prep.demand, bound, now, now() + budget * TILING_SHARE, TILING_NODES);
     if (r.panels) {
-      best = { bins: r.panels.map(({ placed, counts }) => ({ s: 0, counts, placed, load: placed.reduce((a, p) => a + weight[p.t], 0), v: variants[0] })), left: new Int32Array(prep.demand.length) };
+      best = { bins: r.panels.map(({ placed }) => toBin(placed)), left: new Int32Array(prep.demand.length) };
       cands.push(best);
     }
     bound = Math.max(bound, r.bound);
