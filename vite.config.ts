@@ -11,6 +11,7 @@ export default defineConfig({
   test: {
     include: ["test/**/*.test.ts"],
     environment: "node",
+    setupFiles: ["test/support/fast-check-seed.ts"],
     fileParallelism: false,
     testTimeout: 60_000,
     hookTimeout: 60_000,

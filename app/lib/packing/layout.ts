@@ -81,10 +81,12 @@ export function layoutPanel(area: RectUm, parts: RectUm[], kerf: number, stages:
     if (stages === 3 && depth === 1 && !trim) return "breakdown";
     return axis === "y" ? "rip" : "crosscut";
   };
-  const addCut = (r: RectUm, axis: Axis, at: number, pieceStart: number, depth: number, trim: boolean, idx: number) => {
+  // `end` bounds the kerf band: a cut that frees a part lying less than a kerf from the piece's
+  // edge takes only the sliver between them (the blade runs partly past the edge), never the part
+  const addCut = (r: RectUm, axis: Axis, at: number, pieceStart: number, depth: number, trim: boolean, idx: number, end = Infinity) => {
     const a0 = lo(r, axis);
     const a1 = a0 + len(r, axis);
-    const band = Math.min(at + kerf, a1) - at;
+    const band = Math.min(at + kerf, a1, end) - at;
     const cross = len(r, other(axis));
     kerfArea += band * cross;
     const from = lo(r, other(axis));
@@ -137,7 +139,7 @@ export function layoutPanel(area: RectUm, parts: RectUm[], kerf: number, stages:
         const p1 = p0 + len(p, a);
         if (p0 > r0) {
           const at = Math.max(r0, p0 - kerf);
-          addCut(r, a, at, r0, n.depth, true, idx);
+          addCut(r, a, at, r0, n.depth, true, idx, p0);
           if (at > r0) leftovers.push(sub(r, a, r0, at));
         }
         if (p1 < r1) {
@@ -162,7 +164,7 @@ export function layoutPanel(area: RectUm, parts: RectUm[], kerf: number, stages:
       if (gi === 0 && gs > r0) {
         // waste before the first group
         const at = Math.max(r0, gs - kerf);
-        addCut(n.r, axis, at, r0, n.depth, false, idx);
+        addCut(n.r, axis, at, r0, n.depth, false, idx, gs);
         if (at > r0) queue.push({ r: sub(n.r, axis, r0, at), parts: [], depth: n.depth + 1, axis: other(axis) });
         start = gs;
       }
