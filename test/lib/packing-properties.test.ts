@@ -118,11 +118,14 @@ describe("packing properties", () => {
   it("long thin parts a few per panel: valid plans, every part placed, same plan for the same seed", () => {
     fc.assert(
       fc.property(longThinJob, (job) => {
-        const a = planFor(job);
+        // a coarser fake clock: the exact searches do a millisecond or more of real work between
+        // readings, so 0.02 ms a reading made some draws run 80 times their budget (over a minute)
+        const planLongThin = (j: Job) => pack(j, { now: fakeClock(0.2) });
+        const a = planLongThin(job);
         expect(validatePlan(job, a).errors).toEqual([]);
         expect(a.unplaced).toEqual([]);
         expect(a.metrics.lowerBound).toBeLessThanOrEqual(a.metrics.sheets);
-        const b = planFor(job);
+        const b = planLongThin(job);
         a.metrics.elapsedMs = b.metrics.elapsedMs = 0;
         expect(a).toEqual(b);
       }),
