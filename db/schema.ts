@@ -15,6 +15,7 @@ import {
   uniqueIndex,
   uuid,
 } from "drizzle-orm/pg-core";
+import type { SheetSize } from "../app/lib/stock-names";
 
 const createdAt = () => timestamp("created_at", { withTimezone: true, mode: "date" }).notNull().defaultNow();
 
@@ -400,6 +401,8 @@ export const plans = pgTable(
     // Panels the plan opens (stock panels and racked offcuts together), and how many of them are offcuts.
     sheets: integer("sheets"),
     offcutsUsed: integer("offcuts_used"),
+    // The stock panels among them by size, the largest first (offcuts are counted apart above).
+    sheetSizes: jsonb("sheet_sizes").$type<SheetSize[]>(),
     yieldPermille: integer("yield_permille"),
     costMinor: integer("cost_minor"),
     setups: integer("setups"),

@@ -1,18 +1,20 @@
 import { Form, Link } from "react-router";
 import { formatMoney } from "~/lib/money";
-import { stockCount } from "~/lib/stock-names";
+import { stockDrawn } from "~/lib/stock-names";
+import type { DisplayUnit } from "~/lib/units";
 import type { PlanSummary } from "~/models/plans.server";
 
 const STATUS = { queued: "Waiting for a runner", running: "Searching", done: "Finished", failed: "Failed", cancelled: "Cancelled" } as const;
 const percent = (permille: number | null) => (permille === null ? "—" : `${(permille / 10).toFixed(1)} %`);
 const area = (mm2: number | null, unit: "mm" | "in") => (mm2 === null ? "—" : unit === "mm" ? `${(mm2 / 1e6).toFixed(2)} m²` : `${(mm2 / 92_903.04).toFixed(1)} ft²`);
-// Panels counted apart: a plan that opens two racked offcuts and a small sheet must not read as "3 panels".
+// Panels counted apart: a plan that opens two racked offcuts and a small sheet must not read as "3 panels",
+// and each sheet shows its size, so a half-sheet never reads as a full one.
 const panelsOf = (p: PlanSummary) => (p.sheets === null ? null : p.sheets - (p.offcutsUsed ?? 0));
-const drawn = (p: PlanSummary) => (p.sheets === null ? "—" : stockCount(panelsOf(p)!, p.offcutsUsed ?? 0));
+const drawn = (p: PlanSummary, unit: DisplayUnit, offcuts = p.offcutsUsed ?? 0) => (p.sheets === null || p.sheetSizes === null ? "—" : stockDrawn(p.sheetSizes, offcuts, unit));
 const STAGES = { 0: "any cuts", 2: "rip then crosscut", 3: "breakdown, rip, crosscut" } as const;
 
 /** One plan of a batch: live progress while it runs, its figures when it is done. */
-export function PlanCard({ plan, batchId, currency, canWrite, chosen }: { plan: PlanSummary; batchId: string; currency: string; canWrite: boolean; chosen: boolean }) {
+export function PlanCard({ plan, batchId, currency, unit, canWrite, chosen }: { plan: PlanSummary; batchId: string; currency: string; unit: DisplayUnit; canWrite: boolean; chosen: boolean }) {
   const active = plan.status === "queued" || plan.status === "running";
   return (
     <article className={`h-full space-y-3 rounded-lg border bg-card p-4 ${chosen ? "border-edge" : "border-line"}`} data-plan={plan.number} aria-busy={active}>
@@ -34,7 +36,7 @@ export function PlanCard({ plan, batchId, currency, canWrite, chosen }: { plan: 
       )}
       {plan.status === "done" && (
         <dl className="grid grid-cols-2 gap-x-4 gap-y-1 text-sm sm:grid-cols-3">
-          <Figure label="Stock" value={drawn(plan)} wide />
+          <Figure label="Stock" value={drawn(plan, unit)} wide />
           <Figure label="Yield" value={percent(plan.yieldPermille)} />
           <Figure label="Cost" value={plan.costMinor === null ? "—" : formatMoney(plan.costMinor, currency)} />
           <Figure label="Settings" value={plan.setups} />
@@ -85,9 +87,9 @@ function Figure({ label, value, wide = false }: { label: string; value: React.Re
 }
 
 /** Two finished plans side by side: sheets, racked offcuts, yield, cost, settings, offcuts made. */
-export function PlanCompare({ a, b, currency, unit }: { a: PlanSummary; b: PlanSummary; currency: string; unit: "mm" | "in" }) {
+export function PlanCompare({ a, b, currency, unit }: { a: PlanSummary; b: PlanSummary; currency: string; unit: DisplayUnit }) {
   const rows: [string, (p: PlanSummary) => string | number | null, (p: PlanSummary) => number | null][] = [
-    ["Sheets", (p) => panelsOf(p), (p) => panelsOf(p)],
+    ["Sheets", (p) => drawn(p, unit, 0), (p) => panelsOf(p)],
     ["Racked offcuts used", (p) => p.offcutsUsed ?? "—", () => null], // neither more nor fewer is better by itself
     ["Yield", (p) => percent(p.yieldPermille), (p) => (p.yieldPermille === null ? null : -p.yieldPermille)],
     ["Cost", (p) => (p.costMinor === null ? "—" : formatMoney(p.costMinor, currency)), (p) => p.costMinor],

@@ -8,9 +8,10 @@ import { batches, plans } from "../../db/schema";
 import { getDb, isDatabaseUnavailable } from "~/db.server";
 import { checkJobLimits } from "~/lib/packing-limits";
 import type { Plan } from "~/lib/packing/types";
+import { sheetSizes } from "~/lib/stock-names";
 import type { ValidationResult } from "~/lib/packing";
 import { getShop } from "~/models/shops.server";
-import { buildPackingJob } from "~/models/plan-job.server";
+import { buildPackingJob, type StockRef } from "~/models/plan-job.server";
 import type { PlanResult } from "~/models/plans.server";
 import { PLAN_QUEUE, queue, type PlanJobData } from "./queue.server";
 
@@ -200,6 +201,7 @@ async function finish(planId: string, batchId: string, outcome: Outcome, stockRe
         result,
         sheets: plan.metrics.sheets,
         offcutsUsed: plan.sheets.filter((sheet) => stockRefs[sheet.stockId]?.kind === "offcut").length,
+        sheetSizes: sheetSizes(plan.sheets.map((sheet) => stockRefs[sheet.stockId]).filter((ref): ref is StockRef => ref?.kind === "panel")),
         yieldPermille: Math.round(plan.metrics.yield * 1000),
         costMinor,
         setups: plan.metrics.setups,

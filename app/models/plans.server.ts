@@ -3,6 +3,7 @@ import { batches, offcuts, plans, stockPanels, users, type PlanProgress, type Pl
 import { getDb } from "~/db.server";
 import { PLAN_QUEUE, queue, type PlanJobData } from "~/jobs/queue.server";
 import type { Plan } from "~/lib/packing/types";
+import type { SheetSize } from "~/lib/stock-names";
 import { preparedOnce } from "./prepared.server";
 import type { StockRef } from "./plan-job.server";
 
@@ -19,6 +20,7 @@ export type PlanSummary = {
   progress: PlanProgress | null;
   sheets: number | null;
   offcutsUsed: number | null;
+  sheetSizes: SheetSize[] | null;
   yieldPermille: number | null;
   costMinor: number | null;
   setups: number | null;
@@ -36,6 +38,7 @@ const summaryColumns = {
   progress: plans.progress,
   sheets: plans.sheets,
   offcutsUsed: plans.offcutsUsed,
+  sheetSizes: plans.sheetSizes,
   yieldPermille: plans.yieldPermille,
   costMinor: plans.costMinor,
   setups: plans.setups,

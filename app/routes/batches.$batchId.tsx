@@ -348,7 +348,7 @@ export default function BatchPage({ loaderData, actionData }: Route.ComponentPro
         <ul className="grid gap-3 md:grid-cols-2">
           {plans.map((p) => (
             <li key={p.id}>
-              <PlanCard plan={p} batchId={batch.id} currency={currency} canWrite={editable} chosen={batch.chosenPlanId === p.id} />
+              <PlanCard plan={p} batchId={batch.id} currency={currency} unit={unit} canWrite={editable} chosen={batch.chosenPlanId === p.id} />
             </li>
           ))}
         </ul>

@@ -56,8 +56,8 @@ describe("the planner in chromium, on a tablet", () => {
     await first.getByRole("link", { name: "View panels" }).click();
     await page.getByRole("heading", { level: 1, name: "Plan 1" }).waitFor();
     const summary = (await page.getByText(/ · yield /).textContent())!;
-    const panels = Number(summary.match(/^(\d+) sheets? · /)![1]);
-    expect(summary).toMatch(panels === 1 ? /^1 sheet · / : /^\d+ sheets · /); // one sheet, two sheets
+    const panels = Number(summary.match(/^(\d+) sheets? /)![1]);
+    expect(summary).toMatch(panels === 1 ? /^1 sheet \d+ × \d+ mm · / : /^\d+ sheets \d+ × \d+ mm[ ,·]/); // one sheet or two, with their size
     await page.locator('svg [role="button"]').first().click();
     await page.getByText(/Ardent–Vasquez wedding|Penhaligon party/).first().waitFor();
     await page.goBack();

@@ -1,4 +1,5 @@
-import { and, eq } from "drizzle-orm";
+import { readFileSync } from "node:fs";
+import { and, eq, inArray, sql } from "drizzle-orm";
 import request from "supertest";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import * as t from "../../db/schema";
@@ -455,10 +456,25 @@ describe("plan cards", () => {
     const planner = await signIn(server, s.shop.users.planner);
     const html = visible((await request(server).get(`/batches/${batchId}`).set("Cookie", planner)).text);
     const card = (n: number) => html.slice(html.indexOf(`data-plan="${n}"`), html.indexOf("</article>", html.indexOf(`data-plan="${n}"`)));
-    expect(card(1)).toContain(">0 sheets · 1 offcut<");
+    expect(card(1)).toContain(">no new sheet · 1 offcut<");
     expect(card(1)).toContain("Offcuts first: the rack is used before new stock whenever that takes no extra sheet, so this plan cuts a racked offcut.");
-    expect(card(2)).toContain(">1 sheet<");
+    expect(card(2)).toContain(">1 sheet 2440 × 1220 mm<"); // the scenario's 6 mm birch comes as 2440 × 1220 only
     expect(card(2)).not.toContain("Offcuts first");
+  });
+
+  it("the migration's backfill gives saved plans the sheet sizes the plan runner stores", async () => {
+    const s = await scenario();
+    const [offcut] = await db.insert(t.offcuts).values({ shopId: s.shop.id, materialId: s.birch6.id, lengthUm: mm(1300), widthUm: mm(700), location: "Rack B" }).returning();
+    const [batchId] = await createBatches(s.shop.id, "2027-01-10", [s.birch6.id]);
+    const ids = [await requestPlan(s.shop.id, batchId, settings({ offcutIds: [offcut.id] })), await requestPlan(s.shop.id, batchId, settings())];
+    const stored = await Promise.all(ids.map((id) => waitForPlan(id, ["done"])));
+    expect(stored.map((p) => p.sheetSizes)).toEqual([[], [{ lengthUm: mm(2440), widthUm: mm(1220), count: 1 }]]);
+    const migration = readFileSync(new URL("../../db/migrations/0011_plan-sheet-sizes.sql", import.meta.url), "utf8");
+    const backfill = migration.slice(migration.indexOf("UPDATE"));
+    await db.update(t.plans).set({ sheetSizes: null }).where(inArray(t.plans.id, ids));
+    await db.execute(sql.raw(`${backfill.trim().replace(/;$/, "")} AND "id" IN ('${ids.join("','")}')`));
+    const again = await db.select({ id: t.plans.id, sheetSizes: t.plans.sheetSizes }).from(t.plans).where(inArray(t.plans.id, ids));
+    expect(ids.map((id) => again.find((p) => p.id === id)!.sheetSizes)).toEqual(stored.map((p) => p.sheetSizes));
   });
 
   it("the plan view names each panel by its stock, as the catalogue does: a stock panel's size, or a racked offcut", async () => {
@@ -473,10 +489,10 @@ describe("plan cards", () => {
     const view = async (batchId: string, planId: string) => visible((await request(server).get(`/batches/${batchId}/plans/${planId}`).set("Cookie", planner)).text);
     const offcutView = await view(six, onOffcut);
     expect(offcutView).toContain("Panel 1 of 1: racked offcut 1300 × 700 mm");
-    expect(offcutView).toContain("0 sheets · 1 offcut · yield");
+    expect(offcutView).toContain("no new sheet · 1 offcut · yield");
     const halfView = await view(three, onHalf);
     expect(halfView).toContain("Panel 1 of 1: stock panel 1220 × 1220 mm");
-    expect(halfView).toContain("1 sheet · yield");
+    expect(halfView).toContain("1 sheet 1220 × 1220 mm · yield"); // a half-sheet never reads as a full one
     expect(halfView + offcutView).not.toMatch(/full sheet/i);
   });
 });
