@@ -54,6 +54,16 @@ export function DepositPanel({ view, order, currency, canWrite }: { view: Deposi
           Payment link sent to the customer: <a href={deposit.link} className="text-edge underline">{deposit.link}</a>
         </p>
       )}
+      {deposit?.status === "requested" && canWrite && open && (
+        // The same link again (it outlives any checkout the customer opened and left), for a reminder.
+        <Form method="post" encType="multipart/form-data" className="flex flex-wrap items-center gap-3">
+          <input type="hidden" name="intent" value="request-deposit" />
+          <button type="submit" className="min-h-11 rounded-md border border-line bg-white px-4 font-medium hover:border-edge">
+            E-mail the link again
+          </button>
+          <span className="text-sm text-muted">Not paid yet. The link keeps working, even after a checkout the customer left unfinished.</span>
+        </Form>
+      )}
       {unchargeable && <p className="text-sm text-muted">{unchargeable} Take this one another way.</p>}
       {canAsk && (
         <Form method="post" encType="multipart/form-data" className="flex flex-wrap items-center gap-3">

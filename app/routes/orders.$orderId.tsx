@@ -116,12 +116,15 @@ export async function action(args: Route.ActionArgs) {
       case "request-deposit": {
         if (!(await getOrder(user.shopId, orderId))) throw notFound();
         if (!paymentsConfigured()) return fail("Payments are not set up on this server.");
+        const before = await orderDeposit(user.shopId, orderId);
+        const again = before?.status === "requested"; // the same link again, as a reminder
         await openDeposit(user.shopId, orderId);
         try {
           await sendDepositRequest(user.shopId, orderId, publicOrigin(args.request));
         } catch (e) {
           return fail(`The deposit is asked, but the e-mail could not be sent: ${e instanceof Error ? e.message : String(e)} Copy the link below to the customer instead.`);
         }
+        if (again) return data({ errors: {} as Record<string, string>, values: fields, intent: input.intent, notice: "The payment link was e-mailed to the customer again." });
         break;
       }
       case "refund-deposit": {
@@ -211,6 +214,7 @@ export default function OrderPage({ loaderData, actionData }: Route.ComponentPro
       </div>
 
       {errors.form && <FormAlert>{errors.form}</FormAlert>}
+      {actionData && "notice" in actionData && typeof actionData.notice === "string" && <FormAlert tone="ok">{actionData.notice}</FormAlert>}
 
       {order.status !== "draft" && order.confirmedAt && (
         <div className="rounded-lg border border-line bg-card p-4" data-testid="confirmation">

@@ -162,7 +162,9 @@ describe("deposits", () => {
     expect((await request(server).get(`/orders/${order.id}`).set("Cookie", await signIn(server, shop.users.sawyer))).status).toBe(403);
     expect(await movesOf(deposit.id)).toHaveLength(1);
 
-    expect(visible((await request(server).get(`/orders/${order.id}`).set("Cookie", owner)).text)).toContain("Refund €60.60");
+    const paidPage = visible((await request(server).get(`/orders/${order.id}`).set("Cookie", owner)).text);
+    expect(paidPage).toContain("Refund €60.60");
+    expect(paidPage).not.toContain("E-mail the link again"); // paid: no reminder to send
     const refund = await request(server).post(`/orders/${order.id}`).set("Cookie", owner).field("intent", "refund-deposit");
     expect(refund.status, refund.text.slice(0, 300)).toBe(302);
     const moves = await movesOf(deposit.id);
@@ -193,8 +195,14 @@ describe("deposits", () => {
     const mail = await waitForMail(cat.customer.email, seen);
     expect(mail.subject).toMatch(/^Deposit for your order #\d+ with /);
     const token = new URL(linkIn(mail)).pathname.split("/")[2];
-    // Asking twice keeps one deposit.
-    expect((await request(server).post(`/orders/${order.id}`).set("Cookie", owner).field("intent", "request-deposit")).status).toBe(302);
+    // Unpaid, the owner can e-mail the same link again; asking twice keeps one deposit.
+    const asked = visible((await request(server).get(`/orders/${order.id}`).set("Cookie", owner)).text);
+    expect(asked).toContain("E-mail the link again");
+    expect(visible((await request(server).get(`/orders/${order.id}`).set("Cookie", await signIn(server, shop.users.bookkeeper))).text)).not.toContain("E-mail the link again");
+    const resent = await request(server).post(`/orders/${order.id}`).set("Cookie", owner).field("intent", "request-deposit");
+    expect(resent.status).toBe(200);
+    expect(visible(resent.text)).toContain("The payment link was e-mailed to the customer again.");
+    expect(new URL(linkIn(await waitForMail(cat.customer.email, seen + 1))).pathname).toBe(`/pay/${token}`); // the same link
     expect(await db.select().from(t.deposits).where(eq(t.deposits.orderId, order.id))).toHaveLength(1);
 
     const checkout = await request(server).get(`/pay/${token}/checkout`);
