@@ -1,11 +1,12 @@
 import { DrizzlePostgreSQLAdapter } from "@lucia-auth/adapter-drizzle";
 import { Cookie, Lucia, TimeSpan, type DatabaseSession, type DatabaseUser } from "lucia";
 import { data, redirect, type MiddlewareFunction, type RouterContextProvider } from "react-router";
-import { eq } from "drizzle-orm";
+import { eq, sql } from "drizzle-orm";
 import { sessions, shops, users } from "../db/schema";
 import { databaseFaultContext, userContext, type SignedInUser } from "~/context";
 import { getDb, isDatabaseUnavailable } from "~/db.server";
 import { can, deniedMessage, type Permission, type Role } from "~/lib/permissions";
+import { preparedOnce } from "~/models/prepared.server";
 import { timed } from "~/timing.server";
 
 // Sessions expire 12 hours after the last renewal; lucia renews (a new expiry, same id) once half of
@@ -18,14 +19,19 @@ export const SESSION_ABSOLUTE_MS = 12 * 60 * 60 * 1000;
  * lucia's Drizzle adapter, except that the session is read with its user and the shop's name in one
  * query: every request asks this, and a second round trip for the user's row cost as much again.
  */
+const sessionWithUser = preparedOnce((db) =>
+  db
+    .select({ id: sessions.id, userId: sessions.userId, expiresAt: sessions.expiresAt, createdAt: sessions.createdAt, shopId: users.shopId, shopName: shops.name, email: users.email, name: users.name, role: users.role })
+    .from(sessions)
+    .innerJoin(users, eq(users.id, sessions.userId))
+    .innerJoin(shops, eq(shops.id, users.shopId))
+    .where(eq(sessions.id, sql.placeholder("sessionId")))
+    .prepare("session_with_user"),
+);
+
 class SessionAdapter extends DrizzlePostgreSQLAdapter {
   override async getSessionAndUser(sessionId: string): Promise<[DatabaseSession | null, DatabaseUser | null]> {
-    const [row] = await getDb()
-      .select({ id: sessions.id, userId: sessions.userId, expiresAt: sessions.expiresAt, createdAt: sessions.createdAt, shopId: users.shopId, shopName: shops.name, email: users.email, name: users.name, role: users.role })
-      .from(sessions)
-      .innerJoin(users, eq(users.id, sessions.userId))
-      .innerJoin(shops, eq(shops.id, users.shopId))
-      .where(eq(sessions.id, sessionId));
+    const [row] = await sessionWithUser().execute({ sessionId });
     if (!row) return [null, null];
     const { id, userId, expiresAt, createdAt, ...attributes } = row;
     if (Date.now() - createdAt.getTime() > SESSION_ABSOLUTE_MS) {
