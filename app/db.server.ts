@@ -3,6 +3,11 @@ import postgres from "postgres";
 import * as schema from "../db/schema";
 
 export type Database = ReturnType<typeof createDatabase>["db"];
+export type Transaction = Parameters<Parameters<Database["transaction"]>[0]>[0];
+/** The pool or a caller's transaction: model functions that take one run inside it (their own transactions become savepoints). */
+export type Queryable = Database | Transaction;
+/** Where and when a model function writes: by default the pool and the clock of the moment; the demo seed passes its own transaction and last month's dates. */
+export type WriteContext = { db?: Queryable; now?: Date };
 
 export function createDatabase(url: string, options: { max?: number } = {}) {
   const client = postgres(url, {

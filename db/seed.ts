@@ -1,10 +1,15 @@
 // The demo scenario of DESIGN.md: "Tallowmere Sign & Keepsake", a three-person shop.
 // Every name and figure here is invented for the demo.
 import { randomBytes } from "node:crypto";
-import { count, eq, sql } from "drizzle-orm";
+import { count, eq } from "drizzle-orm";
 import { generateIdFromEntropySize } from "lucia";
 import type { Database } from "../app/db.server";
-import { batchLedger, ledgerFigures } from "../app/lib/ledger";
+import { engineOnThisThread, runPlan } from "../app/jobs/plan-runner.server";
+import { batchContents, createBatches } from "../app/models/batches.server";
+import { closeBatchAsCut, expectedOffcuts, tickSetup } from "../app/models/floor.server";
+import { moveOrder } from "../app/models/orders.server";
+import { addPlan, releasePlan, type PlanResult } from "../app/models/plans.server";
+import { getShop } from "../app/models/shops.server";
 import { hashPassword } from "../app/password.server";
 import * as t from "./schema";
 
@@ -29,6 +34,20 @@ export function demoGuestNames(total = 120): string[] {
   }
   return names;
 }
+
+/**
+ * The sheet stock the demo shop opens with. Last month's cuts (seedDemoHistory) draw their sheets from
+ * it as releasing a plan does, so with the history seeded the counts on hand are these less what those
+ * plans used.
+ */
+export const DEMO_STOCK = [
+  { material: "Birch plywood 3 mm", lengthMm: 2440, widthMm: 1220, costMinor: 3450, onHand: 6, grain: "length" },
+  { material: "Birch plywood 3 mm", lengthMm: 1220, widthMm: 1220, costMinor: 1890, onHand: 4, grain: "length" },
+  { material: "Birch plywood 6 mm", lengthMm: 2440, widthMm: 1220, costMinor: 5290, onHand: 8, grain: "length" },
+  { material: "Birch plywood 6 mm", lengthMm: 1220, widthMm: 1220, costMinor: 2880, onHand: 3, grain: "length" },
+  { material: "MDF 6 mm", lengthMm: 2440, widthMm: 1220, costMinor: 2190, onHand: 5, grain: "none" },
+  { material: "MDF 6 mm", lengthMm: 1220, widthMm: 1220, costMinor: 1240, onHand: 2, grain: "none" },
+] as const;
 
 export async function isEmpty(db: Database): Promise<boolean> {
   const [row] = await db.select({ n: count() }).from(t.shops);
@@ -58,14 +77,8 @@ export async function seedDemo(db: Database, today = new Date()): Promise<void> 
       ])
       .returning();
 
-    await tx.insert(t.stockPanels).values([
-      { shopId: shop.id, materialId: birch3.id, lengthUm: mm(2440), widthUm: mm(1220), costMinor: 3450, onHand: 6, grain: "length" },
-      { shopId: shop.id, materialId: birch3.id, lengthUm: mm(1220), widthUm: mm(1220), costMinor: 1890, onHand: 4, grain: "length" },
-      { shopId: shop.id, materialId: birch6.id, lengthUm: mm(2440), widthUm: mm(1220), costMinor: 5290, onHand: 8, grain: "length" },
-      { shopId: shop.id, materialId: birch6.id, lengthUm: mm(1220), widthUm: mm(1220), costMinor: 2880, onHand: 3, grain: "length" },
-      { shopId: shop.id, materialId: mdf6.id, lengthUm: mm(2440), widthUm: mm(1220), costMinor: 2190, onHand: 5, grain: "none" },
-      { shopId: shop.id, materialId: mdf6.id, lengthUm: mm(1220), widthUm: mm(1220), costMinor: 1240, onHand: 2, grain: "none" },
-    ]);
+    const byName = new Map([birch3, birch6, mdf6].map((m) => [m.name, m.id]));
+    await tx.insert(t.stockPanels).values(DEMO_STOCK.map(({ material, lengthMm, widthMm, ...panel }) => ({ shopId: shop.id, materialId: byName.get(material)!, lengthUm: mm(lengthMm), widthUm: mm(widthMm), ...panel })));
 
     await tx.insert(t.offcuts).values([
       { shopId: shop.id, materialId: birch6.id, lengthUm: mm(812), widthUm: mm(430), location: "Rack A, slot 2" },
@@ -151,15 +164,18 @@ export async function seedDemo(db: Database, today = new Date()): Promise<void> 
 }
 
 /**
- * Last month in the demo shop's books: two past orders cut in two batches, closed with their costs, so
- * the bookkeeper's ledger has a month to show. Figures are invented; the arithmetic is app/lib/ledger.ts.
+ * Last month in the demo shop's books: two past orders cut in two batches, each made the way the shop
+ * works: the planner batches the confirmed line, the packing engine plans it and the plan runner saves
+ * it, the planner releases it (sheets drawn from stock, offcuts expected), the sawyer ticks every
+ * set-up and racks the offcuts, and closing the batch writes its books. One transaction: all or none.
+ * The engine runs on this thread with a fixed seed and clock, so the plans are the same on every machine.
  */
 export async function seedDemoHistory(db: Database, today = new Date()): Promise<void> {
   const [shop] = await db.select().from(t.shops).where(eq(t.shops.name, "Tallowmere Sign & Keepsake"));
   const mats = await db.select().from(t.materials).where(eq(t.materials.shopId, shop.id));
   const birch6 = mats.find((m) => m.name === "Birch plywood 6 mm")!;
   const mdf6 = mats.find((m) => m.name === "MDF 6 mm")!;
-  const lastMonth = (day: number) => new Date(Date.UTC(today.getUTCFullYear(), today.getUTCMonth() - 1, day, 15));
+  const lastMonth = (day: number, hour = 15) => new Date(Date.UTC(today.getUTCFullYear(), today.getUTCMonth() - 1, day, hour));
   const iso = (d: Date) => d.toISOString().slice(0, 10);
   await db.transaction(async (tx) => {
     const [hartwell, quince] = await tx
@@ -175,48 +191,60 @@ export async function seedDemoHistory(db: Database, today = new Date()): Promise
     const [christening, shopSigns] = await tx
       .insert(t.orders)
       .values([
-        { shopId: shop.id, number: 990, customerId: hartwell.id, eventDate: iso(lastMonth(20)), dueDate: iso(lastMonth(12)), status: "delivered", confirmedAt: lastMonth(2), confirmationSentAt: lastMonth(2) },
-        { shopId: shop.id, number: 991, customerId: quince.id, eventDate: iso(lastMonth(25)), dueDate: iso(lastMonth(16)), status: "delivered", confirmedAt: lastMonth(3), confirmationSentAt: lastMonth(3) },
+        { shopId: shop.id, number: 990, customerId: hartwell.id, eventDate: iso(lastMonth(20)), dueDate: iso(lastMonth(12)), status: "confirmed", confirmedAt: lastMonth(2), confirmationSentAt: lastMonth(2) },
+        { shopId: shop.id, number: 991, customerId: quince.id, eventDate: iso(lastMonth(25)), dueDate: iso(lastMonth(16)), status: "confirmed", confirmedAt: lastMonth(3), confirmationSentAt: lastMonth(3) },
       ])
       .returning();
-    const [plaqueLine, menuLine] = await tx
-      .insert(t.orderLines)
-      .values([
-        { orderId: christening.id, productId: plaque.id, quantity: 12, unitPriceMinor: plaque.priceMinor, personalisation: Array.from({ length: 12 }, (_, i) => `Guest plaque ${i + 1}`) },
-        { orderId: shopSigns.id, productId: menu.id, quantity: 6, unitPriceMinor: menu.priceMinor, personalisation: [] },
-      ])
-      .returning();
+    await tx.insert(t.orderLines).values([
+      { orderId: christening.id, productId: plaque.id, quantity: 12, unitPriceMinor: plaque.priceMinor, personalisation: Array.from({ length: 12 }, (_, i) => `Guest plaque ${i + 1}`) },
+      { orderId: shopSigns.id, productId: menu.id, quantity: 6, unitPriceMinor: menu.priceMinor, personalisation: [] },
+    ]);
     // Both paid their 30 % deposit two days after confirming.
     await demoDeposit(tx, { shopId: shop.id, orderId: christening.id, amountMinor: 11_520, tag: "christening", requestedAt: lastMonth(2), paidAt: lastMonth(4) });
     await demoDeposit(tx, { shopId: shop.id, orderId: shopSigns.id, amountMinor: 7_560, tag: "quince", requestedAt: lastMonth(3), paidAt: lastMonth(5) });
-    const sheet = { lengthUm: mm(2440), widthUm: mm(1220) };
-    const [{ last }] = await tx.select({ last: sql<number>`coalesce(max(${t.batches.number}), 0)` }).from(t.batches).where(eq(t.batches.shopId, shop.id));
-    const books = [
-      { number: last + 1, material: birch6, line: plaqueLine, order: christening, cutAt: lastMonth(10), cost: 5290, parts: 12 * 400 * 150, kerf: 18_400, racked: [{ lengthUm: mm(1220), widthUm: mm(640) }] },
-      { number: last + 2, material: mdf6, line: menuLine, order: shopSigns, cutAt: lastMonth(14), cost: 2190, parts: 6 * (500 * 350 + 500 * 40), kerf: 11_900, racked: [] as { lengthUm: number; widthUm: number }[] },
+
+    const people = await tx.select().from(t.users).where(eq(t.users.shopId, shop.id));
+    const sawyer = people.find((u) => u.role === "sawyer")!;
+    const [saw] = await tx.select().from(t.saws).where(eq(t.saws.shopId, shop.id));
+    const [sled] = await tx.select().from(t.sleds).where(eq(t.sleds.shopId, shop.id));
+    const settings = await getShop(shop.id, tx);
+    // What the batch page's plan form offered then: the shop's kerf (the saw's was measured only after these cuts) and edge trim.
+    const planSettings: t.PlanSettings = { sawId: saw.id, sledId: sled.id, kerfMm: settings.kerfUm / 1000, trimMm: settings.edgeTrimUm / 1000, stages: 2, objective: "sheets", timeLimitMs: 2000, offcutIds: [], seed: HISTORY_PLAN_SEED };
+    const cuts = [
+      { material: birch6, order: christening, batchedAt: lastMonth(6, 9), cutAt: lastMonth(10), rack: (i: number) => `Rack A, slot ${4 + i}` },
+      { material: mdf6, order: shopSigns, batchedAt: lastMonth(9, 9), cutAt: lastMonth(14), rack: (i: number) => `Rack C, slot ${1 + i}` },
     ];
-    for (const b of books) {
-      const [batch] = await tx.insert(t.batches).values({ shopId: shop.id, number: b.number, materialId: b.material.id, status: "cut", dueBy: iso(b.cutAt), releasedAt: b.cutAt, cutAt: b.cutAt }).returning();
-      await tx.insert(t.batchLines).values({ batchId: batch.id, orderLineId: b.line.id, materialId: b.material.id });
-      const ledger = batchLedger({
-        sheets: [{ kind: "panel", ...sheet, costMinor: b.cost, partsAreaMm2: b.parts }],
-        kerfLossMm2: b.kerf,
-        racked: b.racked,
-        ratePerMm2: b.cost / 2_976_800,
-        spoiled: [],
-        orders: [{ orderId: b.order.id, orderNumber: b.order.number, partsAreaMm2: b.parts }],
-      });
-      await tx.insert(t.batchCosts).values({
-        batchId: batch.id,
-        shopId: shop.id,
-        materialId: b.material.id,
-        cutAt: b.cutAt,
-        ...ledgerFigures(ledger),
-        panels: [{ kind: "panel", ...sheet, costMinor: b.cost, partsAreaMm2: b.parts }],
-        allocations: ledger.allocations,
-      });
+    for (const cut of cuts) {
+      const at = (date: Date, minutes: number) => ({ db: tx, now: new Date(date.getTime() + minutes * 60_000) });
+      const [batchId] = await createBatches(shop.id, cut.order.dueDate, [cut.material.id], at(cut.batchedAt, 0));
+      const { lines } = await batchContents(batchId, tx);
+      if (lines.length !== 1 || lines[0].orderId !== cut.order.id) throw new Error(`The history batch of order #${cut.order.number} took other lines too; seed the history into the demo shop as seeded.`);
+
+      const planId = await addPlan(shop.id, batchId, planSettings, at(cut.batchedAt, 5));
+      await runPlan(planId, { ...at(cut.batchedAt, 5), engine: historyEngine() });
+      const [plan] = await tx.select().from(t.plans).where(eq(t.plans.id, planId));
+      if (plan.status !== "done" || plan.error) throw new Error(`The history plan of order #${cut.order.number} did not come out whole: ${plan.error ?? plan.status}`);
+
+      await releasePlan(shop.id, batchId, planId, at(cut.batchedAt, 30));
+      await moveOrder(shop.id, cut.order.id, "in_production", { db: tx });
+      // At the saw on the day: one set-up ticked every five minutes, each with its full count, then the offcuts racked as planned.
+      const { setups } = (plan.result as PlanResult).plan;
+      for (const [i, setup] of setups.entries()) {
+        await tickSetup(shop.id, sawyer.id, batchId, i, setup.count, setups, at(cut.cutAt, 5 * (i - setups.length)));
+      }
+      const made = (await expectedOffcuts(batchId, tx)).filter((o) => o.status === "expected");
+      const decisions = made.map((o, i) => ({ offcutId: o.id, rack: true, lengthUm: o.lengthUm, widthUm: o.widthUm, location: cut.rack(i) }));
+      await closeBatchAsCut(shop.id, batchId, decisions, setups.length, at(cut.cutAt, 0));
+      for (const status of ["ready", "delivered"] as const) await moveOrder(shop.id, cut.order.id, status, { db: tx });
     }
   });
+}
+
+/** The history plans' engine: this thread, the fixed seed above and a clock that moves 0.01 ms per reading. */
+export const HISTORY_PLAN_SEED = 990;
+export function historyEngine() {
+  let ms = 0;
+  return engineOnThisThread({ now: () => (ms += 0.01) });
 }
 
 type Tx = Parameters<Parameters<Database["transaction"]>[0]>[0];

@@ -5,11 +5,11 @@
 import { and, eq, inArray, isNull, notInArray, or, sql } from "drizzle-orm";
 import { Worker } from "node:worker_threads";
 import { batches, plans } from "../../db/schema";
-import { getDb, isDatabaseUnavailable } from "~/db.server";
+import { getDb, isDatabaseUnavailable, type Queryable, type WriteContext } from "~/db.server";
 import { checkJobLimits } from "~/lib/packing-limits";
-import type { Plan } from "~/lib/packing/types";
+import type { Job, PackOptions, Plan } from "~/lib/packing/types";
 import { sheetSizes } from "~/lib/stock-names";
-import type { ValidationResult } from "~/lib/packing";
+import { pack, validatePlan, type ValidationResult } from "~/lib/packing";
 import { getShop } from "~/models/shops.server";
 import { buildPackingJob, type StockRef } from "~/models/plan-job.server";
 import type { PlanResult } from "~/models/plans.server";
@@ -78,25 +78,50 @@ export async function failAbandonedPlans(staleSeconds: number): Promise<number> 
 
 type Outcome = { kind: "done"; plan: Plan } | { kind: "cancelled" } | { kind: "failed"; reason: string };
 
-/** Runs one plan to its end; never throws for a plan's own failure (it is recorded on the plan). */
-export async function runPlan(planId: string): Promise<void> {
+/** How a plan's engine runs: in a worker thread (the runner's way), or on the calling thread. */
+export type PlanEngine = (planId: string, job: Job) => Promise<Outcome>;
+
+/**
+ * The engine on the calling thread, with its own options, judged by the same validator the worker
+ * runs. For the demo seed: a fixed clock (`now`) makes the search, and so the plan, the same on
+ * every machine, and nothing waits on a queue or a worker.
+ */
+export function engineOnThisThread(options: PackOptions): PlanEngine {
+  return async (_planId, job) => {
+    const plan = pack(job, options);
+    return judged(plan, validatePlan(job, plan));
+  };
+}
+
+function judged(plan: Plan, check: ValidationResult): Outcome {
+  return check.ok ? { kind: "done", plan } : { kind: "failed", reason: `The engine's plan did not pass the validator: ${check.errors.slice(0, 3).join("; ")}` };
+}
+
+type RunOptions = WriteContext & { engine?: PlanEngine };
+
+/**
+ * Runs one plan to its end; never throws for a plan's own failure (it is recorded on the plan).
+ * The runner calls it with no options; `db`, `now` and `engine` let the demo seed run a plan
+ * inside its own transaction, dated in the past, with a fixed clock.
+ */
+export async function runPlan(planId: string, { db, now, engine = runInWorker }: RunOptions = {}): Promise<void> {
   // Taking the plan waits for the database like the save does: the queue has handed this job over
   // once, and a job whose plan row was never marked would leave the plan queued for good.
   const [plan] = await untilDatabaseAnswers(
-    () => getDb().update(plans).set({ status: "running", startedAt: new Date() }).where(and(eq(plans.id, planId), eq(plans.status, "queued"))).returning(),
+    () => (db ?? getDb()).update(plans).set({ status: "running", startedAt: now ?? new Date() }).where(and(eq(plans.id, planId), eq(plans.status, "queued"))).returning(),
     PREPARE_PATIENCE_MS,
   );
   if (!plan) return; // cancelled while queued, or taken by another runner
   active.add(plan.id);
   try {
-    await planAndSave(plan);
+    await planAndSave(plan, engine, db, now);
   } finally {
     active.delete(plan.id);
   }
 }
 
-async function planAndSave(plan: typeof plans.$inferSelect): Promise<void> {
-  const db = getDb();
+async function planAndSave(plan: typeof plans.$inferSelect, engine: PlanEngine, inTransaction?: Queryable, now?: Date): Promise<void> {
+  const db = inTransaction ?? getDb();
   const planId = plan.id;
   let outcome: Outcome;
   let stockRefs: PlanResult["stockRefs"] = {};
@@ -105,7 +130,7 @@ async function planAndSave(plan: typeof plans.$inferSelect): Promise<void> {
     // Only reads: after a restart of PostgreSQL a pooled connection may fail once, so they are retried.
     const built = await untilDatabaseAnswers(async () => {
       const [batch] = await db.select().from(batches).where(eq(batches.id, plan.batchId));
-      return buildPackingJob(await getShop(plan.shopId), batch, plan.settings);
+      return buildPackingJob(await getShop(plan.shopId, inTransaction), batch, plan.settings, inTransaction);
     }, PREPARE_PATIENCE_MS);
     stockRefs = built.stockRefs;
     blanks = built.cutList.blanks.length;
@@ -115,13 +140,13 @@ async function planAndSave(plan: typeof plans.$inferSelect): Promise<void> {
     else if (built.job.stock.length === 0) outcome = { kind: "failed", reason: "The material has no stock panels: add its sheet sizes in the catalogue first." };
     else {
       // The worker also runs the validator on its plan (see pack-worker.ts); a plan it rejects is never saved.
-      outcome = await runInWorker(planId, built.job);
+      outcome = await engine(planId, built.job);
     }
   } catch (error) {
     const reason = isDatabaseUnavailable(error) ? "The database was away while the plan was being prepared. Run the plan again." : error instanceof Error ? error.message : String(error);
     outcome = { kind: "failed", reason };
   }
-  await untilDatabaseAnswers(() => finish(plan.id, plan.batchId, outcome, stockRefs, blanks), SAVE_PATIENCE_MS);
+  await untilDatabaseAnswers(() => finish(db, plan.id, plan.batchId, outcome, stockRefs, blanks, now ?? new Date()), SAVE_PATIENCE_MS);
 }
 
 // A plan that took minutes is not thrown away because PostgreSQL restarted as it ended: the save
@@ -141,7 +166,7 @@ async function untilDatabaseAnswers<T>(work: () => Promise<T>, patienceMs: numbe
   }
 }
 
-function runInWorker(planId: string, job: import("~/lib/packing/types").Job): Promise<Outcome> {
+function runInWorker(planId: string, job: Job): Promise<Outcome> {
   return new Promise((resolve) => {
     const started = Date.now();
     let bestSheets: number | null = null;
@@ -174,20 +199,18 @@ function runInWorker(planId: string, job: import("~/lib/packing/types").Job): Pr
     }, PROGRESS_EVERY_MS);
     worker.on("message", (message: { type: "progress"; bestSheets: number } | { type: "done"; plan: Plan; check: ValidationResult }) => {
       if (message.type === "progress") bestSheets = message.bestSheets;
-      else if (!message.check.ok) done({ kind: "failed", reason: `The engine's plan did not pass the validator: ${message.check.errors.slice(0, 3).join("; ")}` });
-      else done({ kind: "done", plan: message.plan });
+      else done(judged(message.plan, message.check));
     });
     worker.on("error", (error) => done({ kind: "failed", reason: `The engine stopped with an error: ${error.message}` }));
     worker.on("exit", (code) => done({ kind: "failed", reason: `The engine's worker ended unexpectedly (exit code ${code}).` }));
   });
 }
 
-async function finish(planId: string, batchId: string, outcome: Outcome, stockRefs: PlanResult["stockRefs"], blanks: number) {
-  const db = getDb();
+async function finish(db: Queryable, planId: string, batchId: string, outcome: Outcome, stockRefs: PlanResult["stockRefs"], blanks: number, finishedAt: Date) {
   const stillRunning = and(eq(plans.id, planId), eq(plans.status, "running"));
   if (outcome.kind === "cancelled") return; // the row already says cancelled
   if (outcome.kind === "failed") {
-    await db.update(plans).set({ status: "failed", error: outcome.reason, finishedAt: new Date() }).where(stillRunning);
+    await db.update(plans).set({ status: "failed", error: outcome.reason, finishedAt }).where(stillRunning);
     return;
   }
   const { plan } = outcome;
@@ -207,7 +230,7 @@ async function finish(planId: string, batchId: string, outcome: Outcome, stockRe
         setups: plan.metrics.setups,
         offcutAreaMm2: Math.round(plan.metrics.offcutArea),
         progress: { elapsedMs: Math.round(plan.metrics.elapsedMs), bestSheets: plan.metrics.sheets },
-        finishedAt: new Date(),
+        finishedAt,
         error: plan.unplaced.length ? `${plan.unplaced.reduce((n, u) => n + u.quantity, 0)} parts could not be placed: ${plan.unplaced.map((u) => u.reason).join("; ")}` : null,
       })
       .where(stillRunning)

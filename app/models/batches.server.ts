@@ -1,17 +1,14 @@
 import { and, asc, desc, eq, inArray, isNull, lte, notExists, sql } from "drizzle-orm";
 import { batches, batchLines, customers, heldLines, kerfMeasurements, materials, offcuts, orderLines, orders, plans, productParts, products, recutParts, saws, shops, sleds } from "../../db/schema";
-import { getDb } from "~/db.server";
+import { getDb, type Queryable, type Transaction, type WriteContext } from "~/db.server";
 import type { BatchSource } from "~/lib/batch-parts";
 import { batchCode, PROPOSAL_PREVIEW_LINES } from "~/lib/batches";
 import { preparedOnce } from "./prepared.server";
 
 export class BatchStateError extends Error {}
 
-type Tx = Parameters<Parameters<ReturnType<typeof getDb>["transaction"]>[0]>[0];
-type Db = ReturnType<typeof getDb> | Tx;
-
 /** Order lines that no batch cuts yet, one row per line and material of its parts, due by a date. */
-function unbatchedLines(db: Db, shopId: string, dueBy: string) {
+function unbatchedLines(db: Queryable, shopId: string, dueBy: string) {
   return db
     .selectDistinct({
       lineId: orderLines.id,
@@ -43,7 +40,7 @@ function unbatchedLines(db: Db, shopId: string, dueBy: string) {
 }
 
 /** Spoiled parts waiting to be cut again, whatever their due date: they are late already. */
-function openRecuts(db: Db, shopId: string) {
+function openRecuts(db: Queryable, shopId: string) {
   return db
     .select({ id: recutParts.id, materialId: recutParts.materialId, materialName: materials.name, partName: recutParts.partName, reason: recutParts.reason, origin: recutParts.origin })
     .from(recutParts)
@@ -136,14 +133,14 @@ export async function proposalPreviews(shopId: string, dueBy: string, limit = PR
 }
 
 /** Creates the proposed batches afresh inside one transaction; lines another planner batched meanwhile are skipped. */
-export async function createBatches(shopId: string, dueBy: string, materialIds?: string[]): Promise<string[]> {
-  return getDb().transaction(async (tx) => {
+export async function createBatches(shopId: string, dueBy: string, materialIds?: string[], { db = getDb(), now }: WriteContext = {}): Promise<string[]> {
+  return db.transaction(async (tx) => {
     await tx.select({ id: shops.id }).from(shops).where(eq(shops.id, shopId)).for("update");
     const groups = groupByMaterial(await unbatchedLines(tx, shopId, dueBy), await openRecuts(tx, shopId)).filter((g) => !materialIds || materialIds.includes(g.materialId));
     const [{ last }] = await tx.select({ last: sql<number>`coalesce(max(${batches.number}), 0)` }).from(batches).where(eq(batches.shopId, shopId));
     const ids: string[] = [];
     for (const [i, group] of groups.entries()) {
-      const [batch] = await tx.insert(batches).values({ shopId, number: last + i + 1, materialId: group.materialId, dueBy }).returning({ id: batches.id });
+      const [batch] = await tx.insert(batches).values({ shopId, number: last + i + 1, materialId: group.materialId, dueBy, createdAt: now }).returning({ id: batches.id });
       if (group.lines.length) {
         await tx
           .insert(batchLines)
@@ -233,7 +230,7 @@ export async function getBatch(shopId: string, batchId: string) {
  * Each line of the batch with each of its product's parts of the batch's material (a line whose
  * product lost them meanwhile comes once, part columns null). Without texts, for what only counts.
  */
-function contentsQuery(db: Db, withTexts = true) {
+function contentsQuery(db: Queryable, withTexts = true) {
   return db
     .select({
       ...lineColumns,
@@ -256,7 +253,7 @@ function contentsQuery(db: Db, withTexts = true) {
     .prepare(withTexts ? "batch_contents" : "batch_contents_counted");
 }
 
-function recutsQuery(db: Db) {
+function recutsQuery(db: Queryable) {
   return db.select().from(recutParts).where(eq(recutParts.batchId, sql.placeholder("batchId"))).orderBy(asc(recutParts.createdAt)).prepare("batch_recuts");
 }
 
@@ -269,7 +266,7 @@ const poolRecuts = preparedOnce(recutsQuery);
  * one read for both. `withTexts: false` leaves the lines' personalisation out (recuts keep theirs):
  * counting parts and blanks needs none, and a hundred lines' texts cost time to read.
  */
-export async function batchContents(batchId: string, db?: Db, { withTexts = true } = {}): Promise<{ lines: BatchLine[]; sources: BatchSource[] }> {
+export async function batchContents(batchId: string, db?: Queryable, { withTexts = true } = {}): Promise<{ lines: BatchLine[]; sources: BatchSource[] }> {
   const contents = db ? contentsQuery(db, withTexts) : withTexts ? poolContents() : poolContentsWithoutTexts();
   // One after the other on purpose: the plan runner's first reads after a database restart must not
   // take a second pooled connection that has not yet noticed the restart (plan-faults.test.ts).
@@ -319,7 +316,7 @@ export async function batchContents(batchId: string, db?: Db, { withTexts = true
 }
 
 /** The product parts of the batch's material, one row per part of each line, for merging into the cut list. */
-export async function batchSources(batchId: string, db?: Db): Promise<BatchSource[]> {
+export async function batchSources(batchId: string, db?: Queryable): Promise<BatchSource[]> {
   return (await batchContents(batchId, db)).sources;
 }
 
@@ -346,7 +343,7 @@ const batchWithShop = preparedOnce((db) =>
 );
 
 /** Locks the batches (in id order, so two planners moving lines both ways cannot deadlock); null when one is not found in this shop. */
-async function lockOpenBatches(tx: Tx, shopId: string, batchIds: string[]) {
+async function lockOpenBatches(tx: Transaction, shopId: string, batchIds: string[]) {
   const rows = await tx
     .select({ id: batches.id, status: batches.status, materialId: batches.materialId })
     .from(batches)
@@ -359,7 +356,7 @@ async function lockOpenBatches(tx: Tx, shopId: string, batchIds: string[]) {
 }
 
 // A batch whose lines change no longer matches its plans: they go, and it is open again.
-async function discardPlans(tx: Tx, batchId: string) {
+async function discardPlans(tx: Transaction, batchId: string) {
   await tx.delete(plans).where(eq(plans.batchId, batchId));
   await tx.update(batches).set({ status: "open", chosenPlanId: null }).where(eq(batches.id, batchId));
 }

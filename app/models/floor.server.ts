@@ -3,7 +3,7 @@ import { batchCosts, batches, materials, offcuts, plans, recutParts, setupTicks,
 import { batchLedger, ledgerFigures } from "~/lib/ledger";
 import { batchSources } from "./batches.server";
 import { cheapestCostPerArea } from "./plan-job.server";
-import { getDb } from "~/db.server";
+import { getDb, type Queryable, type Transaction, type WriteContext } from "~/db.server";
 import type { Setup } from "~/lib/packing/types";
 import type { PlanResult } from "./plans.server";
 
@@ -48,7 +48,7 @@ export async function floorState(batchId: string): Promise<FloorState> {
   };
 }
 
-async function lockReleased(tx: Parameters<Parameters<ReturnType<typeof getDb>["transaction"]>[0]>[0], shopId: string, batchId: string) {
+async function lockReleased(tx: Transaction, shopId: string, batchId: string) {
   const [batch] = await tx.select().from(batches).where(and(eq(batches.id, batchId), eq(batches.shopId, shopId))).for("update");
   if (!batch) return null;
   if (batch.status !== "released") throw new FloorStateError(batch.status === "cut" || batch.status === "closed" ? "This batch is already cut." : "This batch is not at the saw yet.");
@@ -56,15 +56,15 @@ async function lockReleased(tx: Parameters<Parameters<ReturnType<typeof getDb>["
 }
 
 /** Ticks a set-up of the chosen plan with the count actually cut (ticking again corrects it). */
-export async function tickSetup(shopId: string, userId: string, batchId: string, setupIndex: number, countCut: number, setups: Setup[]): Promise<boolean> {
+export async function tickSetup(shopId: string, userId: string, batchId: string, setupIndex: number, countCut: number, setups: Setup[], { db = getDb(), now = new Date() }: WriteContext = {}): Promise<boolean> {
   if (!Number.isInteger(setupIndex) || setupIndex < 0 || setupIndex >= setups.length) throw new FloorStateError("No such set-up in this batch's plan.");
-  return getDb().transaction(async (tx) => {
+  return db.transaction(async (tx) => {
     const batch = await lockReleased(tx, shopId, batchId);
     if (!batch) return false;
     await tx
       .insert(setupTicks)
-      .values({ batchId, setupIndex, countCut, tickedBy: userId })
-      .onConflictDoUpdate({ target: [setupTicks.batchId, setupTicks.setupIndex], set: { countCut, tickedBy: userId, tickedAt: new Date() } });
+      .values({ batchId, setupIndex, countCut, tickedBy: userId, tickedAt: now })
+      .onConflictDoUpdate({ target: [setupTicks.batchId, setupTicks.setupIndex], set: { countCut, tickedBy: userId, tickedAt: now } });
     return true;
   });
 }
@@ -102,8 +102,8 @@ export type RackDecision = { offcutId: string; rack: boolean; lengthUm: number; 
  * the plan expected are racked at their measured sizes (or noted as not kept), the racked offcuts the
  * batch drew are used up, and the batch is marked cut.
  */
-export async function closeBatchAsCut(shopId: string, batchId: string, decisions: RackDecision[], setupCount: number): Promise<boolean> {
-  return getDb().transaction(async (tx) => {
+export async function closeBatchAsCut(shopId: string, batchId: string, decisions: RackDecision[], setupCount: number, { db = getDb(), now: cutAt = new Date() }: WriteContext = {}): Promise<boolean> {
+  return db.transaction(async (tx) => {
     const batch = await lockReleased(tx, shopId, batchId);
     if (!batch) return false;
     const ticks = await tx.select({ i: setupTicks.setupIndex }).from(setupTicks).where(eq(setupTicks.batchId, batchId));
@@ -119,17 +119,14 @@ export async function closeBatchAsCut(shopId: string, batchId: string, decisions
         .where(eq(offcuts.id, id));
     }
     await tx.update(offcuts).set({ status: "used" }).where(and(eq(offcuts.reservedBatchId, batchId), eq(offcuts.status, "reserved")));
-    const cutAt = new Date();
     await tx.update(batches).set({ status: "cut", cutAt }).where(eq(batches.id, batchId));
     await writeBatchCosts(tx, shopId, batch, cutAt, decisions.filter((d) => d.rack));
     return true;
   });
 }
 
-type Tx = Parameters<Parameters<ReturnType<typeof getDb>["transaction"]>[0]>[0];
-
 /** The batch's books, fixed at the moment it is cut (app/lib/ledger.ts states the rules). */
-async function writeBatchCosts(tx: Tx, shopId: string, batch: typeof batches.$inferSelect, cutAt: Date, racked: RackDecision[]) {
+async function writeBatchCosts(tx: Transaction, shopId: string, batch: typeof batches.$inferSelect, cutAt: Date, racked: RackDecision[]) {
   const [plan] = await tx.select({ result: plans.result }).from(plans).where(eq(plans.id, batch.chosenPlanId!));
   const result = plan.result as PlanResult;
   const panels = await tx.select().from(stockPanels).where(and(eq(stockPanels.shopId, shopId), eq(stockPanels.materialId, batch.materialId)));
@@ -163,8 +160,8 @@ async function writeBatchCosts(tx: Tx, shopId: string, batch: typeof batches.$in
   });
 }
 
-export async function expectedOffcuts(batchId: string) {
-  return getDb()
+export async function expectedOffcuts(batchId: string, db: Queryable = getDb()) {
+  return db
     .select({ id: offcuts.id, lengthUm: offcuts.lengthUm, widthUm: offcuts.widthUm, status: offcuts.status, location: offcuts.location })
     .from(offcuts)
     .where(and(eq(offcuts.sourceBatchId, batchId), inArray(offcuts.status, ["expected", "racked", "discarded"])))

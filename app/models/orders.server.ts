@@ -1,6 +1,6 @@
 import { and, asc, count, desc, eq, ilike, inArray, isNull, or, sql } from "drizzle-orm";
 import { batches, batchLines, customers, lineFiles, orderLines, orders, products, shops } from "../../db/schema";
-import { getDb } from "~/db.server";
+import { getDb, type WriteContext } from "~/db.server";
 import { batchCode } from "~/lib/batches";
 import { DEPOSIT_FILTERS, type DepositStatus } from "~/lib/deposits";
 import { likePattern, parseListQuery, type ListQuery } from "~/lib/listing";
@@ -268,8 +268,8 @@ export async function updateHeader(shopId: string, orderId: string, header: Orde
  * Moves an order on. Confirming happens once: a second "confirm" (a double click, a retry) finds the
  * order already confirmed and changes nothing. Returns the status before, or null when not found.
  */
-export async function moveOrder(shopId: string, orderId: string, to: OrderStatus): Promise<OrderStatus | null> {
-  return getDb().transaction(async (tx) => {
+export async function moveOrder(shopId: string, orderId: string, to: OrderStatus, { db = getDb(), now = new Date() }: WriteContext = {}): Promise<OrderStatus | null> {
+  return db.transaction(async (tx) => {
     const order = await lockOrder(tx, shopId, orderId);
     if (!order) return null;
     if (!canMoveTo(order.status, to)) throw new OrderStateError(`A ${order.status.replace("_", " ")} order cannot become ${to.replace("_", " ")}.`);
@@ -279,7 +279,7 @@ export async function moveOrder(shopId: string, orderId: string, to: OrderStatus
     }
     await tx
       .update(orders)
-      .set({ status: to, ...(to === "confirmed" ? { confirmedAt: new Date(), confirmationSentAt: null, confirmationError: null } : {}) })
+      .set({ status: to, ...(to === "confirmed" ? { confirmedAt: now, confirmationSentAt: null, confirmationError: null } : {}) })
       .where(eq(orders.id, order.id));
     return order.status;
   });

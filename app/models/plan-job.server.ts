@@ -1,7 +1,7 @@
-import { and, eq, inArray } from "drizzle-orm";
+import { and, asc, desc, eq, inArray } from "drizzle-orm";
 import { createHash } from "node:crypto";
 import { offcuts, sleds, stockPanels, type PlanSettings } from "../../db/schema";
-import { getDb } from "~/db.server";
+import { getDb, type Queryable } from "~/db.server";
 import { mergeBatchParts, type BatchSource, type MergedPart } from "~/lib/batch-parts";
 import { nestLaserParts, type LaserBlank } from "~/lib/laser-blanks";
 import { umToMm } from "~/lib/packing";
@@ -31,8 +31,8 @@ function nestCached(laser: MergedPart[], shop: ShopSettings) {
 }
 
 /** What a batch cuts: its merged sawn parts, and its laser items nested onto bed-sized blanks. */
-export async function batchCutList(batchId: string, shop: ShopSettings): Promise<BatchCutList> {
-  return cutListOf(await batchSources(batchId), shop);
+export async function batchCutList(batchId: string, shop: ShopSettings, db?: Queryable): Promise<BatchCutList> {
+  return cutListOf(await batchSources(batchId, db), shop);
 }
 
 /** The cut list of a batch's sources (from `batchSources`), for callers that read them alongside other queries. */
@@ -50,15 +50,20 @@ export type StockRef = { kind: "panel" | "offcut"; id: string; costMinor: number
  * size, so one fence and one stop setting cut them all), on the material's full sheets and the
  * racked offcuts the planner allowed. Costs are minor units.
  */
-export async function buildPackingJob(shop: ShopSettings, batch: { id: string; materialId: string }, settings: PlanSettings) {
-  const db = getDb();
-  const cutList = await batchCutList(batch.id, shop);
+export async function buildPackingJob(shop: ShopSettings, batch: { id: string; materialId: string }, settings: PlanSettings, inTransaction?: Queryable) {
+  const db = inTransaction ?? getDb();
+  const cutList = await batchCutList(batch.id, shop, inTransaction);
   // The sled the planner chose sets the stop range and the widest crosscut; else the shop's settings do.
   const [sled] = settings.sledId ? await db.select().from(sleds).where(and(eq(sleds.id, settings.sledId), eq(sleds.shopId, shop.id))) : [];
   const [panels, rack] = await Promise.all([
-    db.select().from(stockPanels).where(and(eq(stockPanels.shopId, shop.id), eq(stockPanels.materialId, batch.materialId))),
+    // In a fixed order (largest first), so one batch and seed give one plan however the rows lie on disk.
+    db
+      .select()
+      .from(stockPanels)
+      .where(and(eq(stockPanels.shopId, shop.id), eq(stockPanels.materialId, batch.materialId)))
+      .orderBy(desc(stockPanels.lengthUm), desc(stockPanels.widthUm), asc(stockPanels.id)),
     settings.offcutIds.length
-      ? db.select().from(offcuts).where(and(eq(offcuts.shopId, shop.id), eq(offcuts.materialId, batch.materialId), eq(offcuts.status, "racked"), inArray(offcuts.id, settings.offcutIds)))
+      ? db.select().from(offcuts).where(and(eq(offcuts.shopId, shop.id), eq(offcuts.materialId, batch.materialId), eq(offcuts.status, "racked"), inArray(offcuts.id, settings.offcutIds))).orderBy(desc(offcuts.lengthUm), desc(offcuts.widthUm), asc(offcuts.id))
       : Promise.resolve([]),
   ]);
   const stockRefs: Record<string, StockRef> = {};

@@ -1,6 +1,6 @@
 import { and, asc, count, desc, eq, inArray, sql } from "drizzle-orm";
 import { batches, offcuts, plans, stockPanels, users, type PlanProgress, type PlanSettings } from "../../db/schema";
-import { getDb } from "~/db.server";
+import { getDb, type WriteContext } from "~/db.server";
 import { PLAN_QUEUE, queue, type PlanJobData } from "~/jobs/queue.server";
 import type { Plan } from "~/lib/packing/types";
 import type { SheetSize } from "~/lib/stock-names";
@@ -69,16 +69,21 @@ export async function getPlan(shopId: string, batchId: string, planId: string) {
   return row ? { ...row, result: row.result as PlanResult | null } : null;
 }
 
-/** Queues a plan of the batch. The job carries only the plan's id; the runner reads the rest. */
-export async function requestPlan(shopId: string, batchId: string, settings: PlanSettings): Promise<string> {
-  const planId = await getDb().transaction(async (tx) => {
+/** Adds a queued plan of the batch (its next number) and returns its id; requestPlan then hands it to the runners. */
+export async function addPlan(shopId: string, batchId: string, settings: PlanSettings, { db = getDb(), now }: WriteContext = {}): Promise<string> {
+  return db.transaction(async (tx) => {
     const [batch] = await tx.select({ id: batches.id, status: batches.status }).from(batches).where(and(eq(batches.id, batchId), eq(batches.shopId, shopId))).for("update");
     if (!batch) throw new PlanStateError("No such batch in this shop.");
     if (batch.status !== "open" && batch.status !== "planned") throw new PlanStateError("This batch has gone to the saw; it takes no new plans.");
     const [{ last }] = await tx.select({ last: sql<number>`coalesce(max(${plans.number}), 0)` }).from(plans).where(eq(plans.batchId, batch.id));
-    const [plan] = await tx.insert(plans).values({ shopId, batchId: batch.id, number: last + 1, settings, progress: { elapsedMs: 0, bestSheets: null } }).returning({ id: plans.id });
+    const [plan] = await tx.insert(plans).values({ shopId, batchId: batch.id, number: last + 1, settings, progress: { elapsedMs: 0, bestSheets: null }, createdAt: now }).returning({ id: plans.id });
     return plan.id;
   });
+}
+
+/** Queues a plan of the batch. The job carries only the plan's id; the runner reads the rest. */
+export async function requestPlan(shopId: string, batchId: string, settings: PlanSettings): Promise<string> {
+  const planId = await addPlan(shopId, batchId, settings);
   const boss = await queue();
   const jobId = await boss.send(PLAN_QUEUE, { planId } satisfies PlanJobData);
   await getDb().update(plans).set({ jobId }).where(eq(plans.id, planId));
@@ -116,8 +121,8 @@ export function stockUse(result: PlanResult) {
  * gets an offcut; the other's transaction rolls back whole), records the offcuts the plan will
  * make, and marks the batch released with this plan.
  */
-export async function releasePlan(shopId: string, batchId: string, planId: string): Promise<{ code: number; sheets: number; setups: number }> {
-  return getDb().transaction(async (tx) => {
+export async function releasePlan(shopId: string, batchId: string, planId: string, { db = getDb(), now = new Date() }: WriteContext = {}): Promise<{ code: number; sheets: number; setups: number }> {
+  return db.transaction(async (tx) => {
     const [batch] = await tx.select().from(batches).where(and(eq(batches.id, batchId), eq(batches.shopId, shopId))).for("update");
     if (!batch) throw new PlanStateError("No such batch in this shop.");
     if (batch.status !== "open" && batch.status !== "planned") throw new PlanStateError("This batch was already released.");
@@ -152,10 +157,10 @@ export async function releasePlan(shopId: string, batchId: string, planId: strin
     }
     const made = result.plan.sheets.flatMap((sheet) =>
       // Kept as cut: length along the panel's length, so the grain direction stays true.
-      sheet.offcuts.map((o) => ({ shopId, materialId: batch.materialId, lengthUm: Math.round(o.length * 1000), widthUm: Math.round(o.width * 1000), grain: result.stockRefs[sheet.stockId].grain, status: "expected" as const, sourceBatchId: batch.id })),
+      sheet.offcuts.map((o) => ({ shopId, materialId: batch.materialId, lengthUm: Math.round(o.length * 1000), widthUm: Math.round(o.width * 1000), grain: result.stockRefs[sheet.stockId].grain, status: "expected" as const, sourceBatchId: batch.id, createdAt: now })),
     );
     if (made.length) await tx.insert(offcuts).values(made);
-    await tx.update(batches).set({ status: "released", chosenPlanId: planId, releasedAt: new Date() }).where(eq(batches.id, batch.id));
+    await tx.update(batches).set({ status: "released", chosenPlanId: planId, releasedAt: now }).where(eq(batches.id, batch.id));
     return { code: batch.number, sheets: result.plan.metrics.sheets, setups: result.plan.metrics.setups };
   });
 }

@@ -328,7 +328,7 @@ export default function BatchPage({ loaderData, actionData }: Route.ComponentPro
         <h2 className="text-xl font-semibold">Plans</h2>
         {plans.length === 0 &&
           (batch.status === "cut" ? (
-            // a batch recorded as cut without its plan (the demo's history): its figures are in the ledger
+            // a batch recorded as cut before plans were kept: its figures are in the ledger
             <p className="text-muted">
               No plan is kept for this batch.
               {loaderData.canReadLedger && (
