@@ -5,6 +5,7 @@ import compression from "compression";
 import express from "express";
 import { constants as zlibConstants } from "node:zlib";
 import { extname } from "node:path";
+import type { AddressInfo } from "node:net";
 import { fileURLToPath } from "node:url";
 import { buildDirectory } from "../react-router.config";
 
@@ -31,7 +32,8 @@ app.use((req, _res, next) => {
 });
 app.all("/{*splat}", createRequestHandler({ build, mode: process.env.NODE_ENV }));
 
-const server = app.listen(port, host, () => console.log(`Stopwise listening on http://${host}:${port}`));
+// PORT=0 takes any free port; the line names the one bound (the test helpers read it from here).
+const server = app.listen(port, host, () => console.log(`Stopwise listening on http://${host}:${(server.address() as AddressInfo).port}`));
 
 // Plans run beside the web server: the engine itself runs in a worker thread per plan, so requests
 // keep being answered. STOPWISE_PLAN_RUNNER=0 leaves it to runners elsewhere.
