@@ -1,4 +1,4 @@
-import { and, asc, eq, inArray } from "drizzle-orm";
+import { and, asc, desc, eq, inArray } from "drizzle-orm";
 import { batches, materials, offcuts, stockPanels } from "../../db/schema";
 import { getDb } from "~/db.server";
 
@@ -12,7 +12,8 @@ export async function rackOverview(shopId: string) {
       .from(offcuts)
       .leftJoin(batches, eq(batches.id, offcuts.sourceBatchId))
       .where(and(eq(offcuts.shopId, shopId), inArray(offcuts.status, ["racked", "reserved", "expected"])))
-      .orderBy(asc(offcuts.createdAt)),
+      // oldest first; offcuts racked together (one release makes several) biggest first, in a fixed order
+      .orderBy(asc(offcuts.createdAt), desc(offcuts.lengthUm), desc(offcuts.widthUm), asc(offcuts.id)),
     db.select().from(stockPanels).where(eq(stockPanels.shopId, shopId)),
   ]);
   return mats.map((m) => ({
