@@ -194,6 +194,7 @@ const batchHeaderColumns = {
   dueBy: batches.dueBy,
   chosenPlanId: batches.chosenPlanId,
   releasedAt: batches.releasedAt,
+  cutAt: batches.cutAt,
   materialId: materials.id,
   materialName: materials.name,
   thicknessUm: materials.thicknessUm,

@@ -43,9 +43,11 @@ export async function setupSheetInput({ batch, plan, result, shop, cutList }: Re
         .from(offcuts)
         .where(and(eq(offcuts.shopId, shop.id), eq(offcuts.reservedBatchId, batch.id), inArray(offcuts.id, offcutIds)))
     : [];
+  // A batch already cut is shown as it stood that day: the saw's kerf and the sled's check then.
+  const asOf = batch.cutAt ?? now;
   const [saw, sled] = await Promise.all([
-    plan.settings.sawId ? getSaw(shop.id, plan.settings.sawId) : null,
-    plan.settings.sledId ? getSled(shop.id, plan.settings.sledId) : null,
+    plan.settings.sawId ? getSaw(shop.id, plan.settings.sawId, asOf) : null,
+    plan.settings.sledId ? getSled(shop.id, plan.settings.sledId, asOf) : null,
   ]);
   return {
     batch: { code: batch.code, materialName: batch.materialName, thicknessUm: batch.thicknessUm },
@@ -55,6 +57,6 @@ export async function setupSheetInput({ batch, plan, result, shop, cutList }: Re
     offcuts: Object.fromEntries(rack.map((o) => [o.id, o])),
     saw: saw ? { name: saw.name, latestKerfUm: saw.latestKerfUm } : null,
     sled,
-    now,
+    now: asOf,
   };
 }

@@ -56,16 +56,18 @@ async function checkRows(shopId: string, sledIds: string[]) {
   return rows.map(({ sledId, ...row }) => ({ sledId, ...withMaths(row) }));
 }
 
-export async function listSaws(shopId: string): Promise<SawSummary[]> {
+/** asOf: the latest measurement up to that moment (a cut batch's set-up sheet shows the saw as it was). */
+export async function listSaws(shopId: string, asOf?: Date): Promise<SawSummary[]> {
   const rows = await getDb().select({ id: saws.id, name: saws.name, blade: saws.blade }).from(saws).where(eq(saws.shopId, shopId)).orderBy(saws.name, saws.id);
   const kerfs = await kerfRows(shopId, rows.map((r) => r.id));
   return rows.map((saw) => {
-    const latest = kerfs.find((k) => k.sawId === saw.id);
+    const latest = kerfs.find((k) => k.sawId === saw.id && (!asOf || k.measuredAt <= asOf));
     return { ...saw, latestKerfUm: latest?.kerfUm ?? null, latestAt: latest?.measuredAt ?? null };
   });
 }
 
-export async function listSleds(shopId: string): Promise<SledSummary[]> {
+/** asOf: the last check up to that moment (a cut batch's set-up sheet shows the sled as it was). */
+export async function listSleds(shopId: string, asOf?: Date): Promise<SledSummary[]> {
   const rows = await getDb()
     .select({ id: sleds.id, name: sleds.name, sawId: sleds.sawId, stopMinUm: sleds.stopMinUm, stopMaxUm: sleds.stopMaxUm, widestUm: sleds.widestUm })
     .from(sleds)
@@ -73,7 +75,7 @@ export async function listSleds(shopId: string): Promise<SledSummary[]> {
     .orderBy(sleds.name, sleds.id);
   const checks = await checkRows(shopId, rows.map((r) => r.id));
   return rows.map((sled) => {
-    const last = checks.find((c) => c.sledId === sled.id);
+    const last = checks.find((c) => c.sledId === sled.id && (!asOf || c.checkedAt <= asOf));
     return { ...sled, lastCheck: last ? stripSled(last) : null };
   });
 }
@@ -92,12 +94,12 @@ export async function sawStation(shopId: string) {
   };
 }
 
-export async function getSaw(shopId: string, sawId: string) {
-  return (await listSaws(shopId)).find((s) => s.id === sawId) ?? null;
+export async function getSaw(shopId: string, sawId: string, asOf?: Date) {
+  return (await listSaws(shopId, asOf)).find((s) => s.id === sawId) ?? null;
 }
 
-export async function getSled(shopId: string, sledId: string) {
-  return (await listSleds(shopId)).find((s) => s.id === sledId) ?? null;
+export async function getSled(shopId: string, sledId: string, asOf?: Date) {
+  return (await listSleds(shopId, asOf)).find((s) => s.id === sledId) ?? null;
 }
 
 export async function addSaw(shopId: string, input: { name: string; blade: string }): Promise<string> {

@@ -218,6 +218,31 @@ describe("the sled on the sheet", () => {
   });
 });
 
+describe("the set-up sheet of a batch already cut", () => {
+  it("shows the sled's check and the saw's kerf as they stood the day it was cut, not later ones", async () => {
+    const s = await batchScenario();
+    await createBatches(s.shop.id, "2027-01-15");
+    const [six] = await db.select().from(t.batches).where(and(eq(t.batches.shopId, s.shop.id), eq(t.batches.materialId, s.birch6.id)));
+    const day = (n: number) => new Date(Date.now() + n * 86_400_000);
+    const sawId = await addSaw(s.shop.id, { name: "Cabinet saw", blade: "" });
+    await recordKerf(s.shop.id, sawId, s.shop.users.sawyer.id, { kerfUm: 3200, note: "" }, day(-3));
+    const sledId = (await addSled(s.shop.id, { name: "Big sled", sawId, stopMinUm: 20_000, stopMaxUm: 1_200_000, widestUm: 610_000 }))!;
+    await recordSledCheck(s.shop.id, sledId, s.shop.users.sawyer.id, { widthFirstEndUm: 25_020, widthSecondEndUm: 25_000, stripLengthUm: 400_000, pivotDistanceUm: 550_000 }, day(-3));
+    await release(s.shop.id, six.id, { sawId, sledId });
+    await db.update(t.batches).set({ status: "cut", cutAt: day(-2) }).where(eq(t.batches.id, six.id));
+    // After the cut: the sled knocked out of square, and a new blade measured wider.
+    await recordSledCheck(s.shop.id, sledId, s.shop.users.sawyer.id, { widthFirstEndUm: 26_000, widthSecondEndUm: 25_000, stripLengthUm: 400_000, pivotDistanceUm: 550_000 }, day(-1));
+    await recordKerf(s.shop.id, sawId, s.shop.users.sawyer.id, { kerfUm: 3400, note: "new blade" }, day(-1));
+
+    const sheet = flat(text(pdfOf(await get(`/batches/${six.id}/setup-sheet`, await signIn(server, s.shop.users.sawyer)), "cut-batch")));
+    expect(sheet).not.toContain("WARNING");
+    expect(sheet).toContain("error 0.013 mm per metre"); // the check of day −3: 0.02 mm / (4 × 400 mm) × 1000 mm
+    expect(sheet).not.toContain("0.625 mm per metre"); // the check after the cut
+    expect(sheet).toContain("kerf 3.20 mm");
+    expect(sheet).not.toContain("3.40 mm");
+  });
+});
+
 describe("golden set-up sheet of the demo batch (for review)", () => {
   it("renders the demo's 6 mm birch batch to PNG in test/.artifacts", async () => {
     // The demo shop, once per test database (nothing else in the suite seeds it).
