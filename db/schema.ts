@@ -405,6 +405,8 @@ export const plans = pgTable(
     sheetSizes: jsonb("sheet_sizes").$type<SheetSize[]>(),
     yieldPermille: integer("yield_permille"),
     costMinor: integer("cost_minor"),
+    // What the offcuts it leaves are worth at the material's rate, as the ledger credits them when racked.
+    rackCreditMinor: integer("rack_credit_minor"),
     setups: integer("setups"),
     offcutAreaMm2: integer("offcut_area_mm2"),
     error: text("error"),

@@ -11,6 +11,8 @@ const area = (mm2: number | null, unit: "mm" | "in") => (mm2 === null ? "—" : 
 // and each sheet shows its size, so a half-sheet never reads as a full one.
 const panelsOf = (p: PlanSummary) => (p.sheets === null ? null : p.sheets - (p.offcutsUsed ?? 0));
 const drawn = (p: PlanSummary, unit: DisplayUnit, offcuts = p.offcutsUsed ?? 0) => (p.sheets === null || p.sheetSizes === null ? "—" : stockDrawn(p.sheetSizes, offcuts, unit));
+// What the stock costs less what the offcuts it leaves are worth back on the rack (the ledger's rule).
+const netCost = (p: PlanSummary) => (p.costMinor === null || p.rackCreditMinor === null ? null : p.costMinor - p.rackCreditMinor);
 const STAGES = { 0: "any cuts", 2: "rip then crosscut", 3: "breakdown, rip, crosscut" } as const;
 
 /** One plan of a batch: live progress while it runs, its figures when it is done. */
@@ -39,6 +41,7 @@ export function PlanCard({ plan, batchId, currency, unit, canWrite, chosen }: { 
           <Figure label="Stock" value={drawn(plan, unit)} wide />
           <Figure label="Yield" value={percent(plan.yieldPermille)} />
           <Figure label="Cost" value={plan.costMinor === null ? "—" : formatMoney(plan.costMinor, currency)} />
+          <Figure label="Net of offcuts" value={netCost(plan) === null ? "—" : formatMoney(netCost(plan)!, currency)} />
           <Figure label="Settings" value={plan.setups} />
         </dl>
       )}
@@ -93,6 +96,7 @@ export function PlanCompare({ a, b, currency, unit }: { a: PlanSummary; b: PlanS
     ["Racked offcuts used", (p) => p.offcutsUsed ?? "—", () => null], // neither more nor fewer is better by itself
     ["Yield", (p) => percent(p.yieldPermille), (p) => (p.yieldPermille === null ? null : -p.yieldPermille)],
     ["Cost", (p) => (p.costMinor === null ? "—" : formatMoney(p.costMinor, currency)), (p) => p.costMinor],
+    ["Net of offcuts racked", (p) => (netCost(p) === null ? "—" : formatMoney(netCost(p)!, currency)), netCost],
     ["Fence and stop settings", (p) => p.setups, (p) => p.setups],
     ["Offcuts to rack", (p) => area(p.offcutAreaMm2, unit), (p) => (p.offcutAreaMm2 === null ? null : -p.offcutAreaMm2)],
   ];

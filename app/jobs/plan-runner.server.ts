@@ -8,6 +8,7 @@ import { batches, plans } from "../../db/schema";
 import { getDb, isDatabaseUnavailable, type Queryable, type WriteContext } from "~/db.server";
 import { checkJobLimits } from "~/lib/packing-limits";
 import type { Job, PackOptions, Plan } from "~/lib/packing/types";
+import { valueReturned } from "~/lib/ledger";
 import { sheetSizes } from "~/lib/stock-names";
 import { pack, validatePlan, type ValidationResult } from "~/lib/packing";
 import { getShop } from "~/models/shops.server";
@@ -126,6 +127,7 @@ async function planAndSave(plan: typeof plans.$inferSelect, engine: PlanEngine, 
   let outcome: Outcome;
   let stockRefs: PlanResult["stockRefs"] = {};
   let blanks = 0;
+  let offcutRatePerMm2 = 0;
   try {
     // Only reads: after a restart of PostgreSQL a pooled connection may fail once, so they are retried.
     const built = await untilDatabaseAnswers(async () => {
@@ -134,6 +136,7 @@ async function planAndSave(plan: typeof plans.$inferSelect, engine: PlanEngine, 
     }, PREPARE_PATIENCE_MS);
     stockRefs = built.stockRefs;
     blanks = built.cutList.blanks.length;
+    offcutRatePerMm2 = built.offcutRatePerMm2;
     const bounded = checkJobLimits(built.job);
     if (!bounded.ok) outcome = { kind: "failed", reason: `The batch is beyond what one plan can take (${bounded.error}).` };
     else if (built.job.parts.length === 0) outcome = { kind: "failed", reason: "The batch has no parts to cut." };
@@ -146,7 +149,7 @@ async function planAndSave(plan: typeof plans.$inferSelect, engine: PlanEngine, 
     const reason = isDatabaseUnavailable(error) ? "The database was away while the plan was being prepared. Run the plan again." : error instanceof Error ? error.message : String(error);
     outcome = { kind: "failed", reason };
   }
-  await untilDatabaseAnswers(() => finish(db, plan.id, plan.batchId, outcome, stockRefs, blanks, now ?? new Date()), SAVE_PATIENCE_MS);
+  await untilDatabaseAnswers(() => finish(db, plan.id, plan.batchId, outcome, stockRefs, blanks, offcutRatePerMm2, now ?? new Date()), SAVE_PATIENCE_MS);
 }
 
 // A plan that took minutes is not thrown away because PostgreSQL restarted as it ended: the save
@@ -206,7 +209,7 @@ function runInWorker(planId: string, job: Job): Promise<Outcome> {
   });
 }
 
-async function finish(db: Queryable, planId: string, batchId: string, outcome: Outcome, stockRefs: PlanResult["stockRefs"], blanks: number, finishedAt: Date) {
+async function finish(db: Queryable, planId: string, batchId: string, outcome: Outcome, stockRefs: PlanResult["stockRefs"], blanks: number, offcutRatePerMm2: number, finishedAt: Date) {
   const stillRunning = and(eq(plans.id, planId), eq(plans.status, "running"));
   if (outcome.kind === "cancelled") return; // the row already says cancelled
   if (outcome.kind === "failed") {
@@ -227,6 +230,7 @@ async function finish(db: Queryable, planId: string, batchId: string, outcome: O
         sheetSizes: sheetSizes(plan.sheets.map((sheet) => stockRefs[sheet.stockId]).filter((ref): ref is StockRef => ref?.kind === "panel")),
         yieldPermille: Math.round(plan.metrics.yield * 1000),
         costMinor,
+        rackCreditMinor: valueReturned(costMinor, Math.round(plan.metrics.offcutArea), offcutRatePerMm2),
         setups: plan.metrics.setups,
         offcutAreaMm2: Math.round(plan.metrics.offcutArea),
         progress: { elapsedMs: Math.round(plan.metrics.elapsedMs), bestSheets: plan.metrics.sheets },

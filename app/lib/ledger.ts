@@ -67,6 +67,11 @@ export function splitByWeight(total: number, weights: number[]): number[] {
   return floors;
 }
 
+/** What offcuts going back to the rack are worth, at the material's rate: never more than the stock drawn. */
+export function valueReturned(costDrawnMinor: number, rackedAreaMm2: number, ratePerMm2: number): number {
+  return Math.min(costDrawnMinor, Math.round(rackedAreaMm2 * ratePerMm2));
+}
+
 export function batchLedger(input: LedgerInput): BatchLedger {
   const stockAreaMm2 = input.sheets.reduce((a, s) => a + areaMm2(s.lengthUm, s.widthUm), 0);
   const offcutDrawnAreaMm2 = input.sheets.filter((s) => s.kind === "offcut").reduce((a, s) => a + areaMm2(s.lengthUm, s.widthUm), 0);
@@ -76,7 +81,7 @@ export function batchLedger(input: LedgerInput): BatchLedger {
   const wasteAreaMm2 = Math.max(0, stockAreaMm2 - partsAreaMm2 - rackedAreaMm2);
   const scrapAreaMm2 = Math.max(0, wasteAreaMm2 - kerfLossMm2);
   const costDrawnMinor = input.sheets.reduce((a, s) => a + s.costMinor, 0);
-  const valueReturnedMinor = Math.min(costDrawnMinor, Math.round(rackedAreaMm2 * input.ratePerMm2));
+  const valueReturnedMinor = valueReturned(costDrawnMinor, rackedAreaMm2, input.ratePerMm2);
   const netCostMinor = costDrawnMinor - valueReturnedMinor;
   const [partsCostMinor, scrapCostMinor] = splitByWeight(netCostMinor, [partsAreaMm2, wasteAreaMm2]);
   const spoiledAreaMm2 = input.spoiled.reduce((a, p) => a + areaMm2(p.lengthUm, p.widthUm), 0);

@@ -104,7 +104,8 @@ export async function buildPackingJob(shop: ShopSettings, batch: { id: string; m
       stopMax: umToMm(sled?.stopMaxUm ?? shop.stopMaxUm),
     },
   };
-  return { job, stockRefs, cutList };
+  // offcuts the plan leaves are worth the same rate (the ledger credits them when they are racked)
+  return { job, stockRefs, cutList, offcutRatePerMm2: costPerUm2 * 1e6 };
 }
 
 /** Offcuts are valued at the material's cheapest full-sheet price per area (the ledger uses the same rule). */

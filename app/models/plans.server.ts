@@ -23,6 +23,7 @@ export type PlanSummary = {
   sheetSizes: SheetSize[] | null;
   yieldPermille: number | null;
   costMinor: number | null;
+  rackCreditMinor: number | null;
   setups: number | null;
   offcutAreaMm2: number | null;
   error: string | null;
@@ -41,6 +42,7 @@ const summaryColumns = {
   sheetSizes: plans.sheetSizes,
   yieldPermille: plans.yieldPermille,
   costMinor: plans.costMinor,
+  rackCreditMinor: plans.rackCreditMinor,
   setups: plans.setups,
   offcutAreaMm2: plans.offcutAreaMm2,
   error: plans.error,

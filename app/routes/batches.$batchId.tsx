@@ -371,7 +371,7 @@ export default function BatchPage({ loaderData, actionData }: Route.ComponentPro
           </div>
         )}
       </section>
-      <p className="text-sm text-muted">A plan's cost is the stock it draws: stock panels at their catalogue price, racked offcuts at the material's cheapest price per area.</p>
+      <p className="text-sm text-muted">A plan's cost is the stock it draws: stock panels at their catalogue price, racked offcuts at the material's cheapest price per area. Net of offcuts takes off what the offcuts it leaves are worth at that rate, as the ledger does once they are racked.</p>
     </div>
   );
 }

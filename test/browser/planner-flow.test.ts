@@ -51,7 +51,7 @@ describe("the planner in chromium, on a tablet", () => {
     await page.getByLabel("Second", { exact: true }).selectOption({ label: "Plan 2" });
     const table = page.getByTestId("plan-compare");
     await table.waitFor();
-    expect(await table.locator("tbody tr").count()).toBe(6); // sheets and racked offcuts on rows of their own
+    expect(await table.locator("tbody tr").count()).toBe(7); // sheets and racked offcuts on rows of their own, cost and net of offcuts too
 
     await first.getByRole("link", { name: "View panels" }).click();
     await page.getByRole("heading", { level: 1, name: "Plan 1" }).waitFor();

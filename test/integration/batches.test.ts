@@ -11,6 +11,7 @@ import { getDb } from "~/db.server";
 import { startPlanRunner, stopPlanRunner } from "~/jobs/plan-runner.server";
 import { batchSources, createBatches, getBatch, holdLines, moveLines, proposalPreviews, proposeBatches } from "~/models/batches.server";
 import { mergeBatchParts } from "~/lib/batch-parts";
+import { formatMoney } from "~/lib/money";
 import { BATCH_LINES_SHOWN, proposalPreview } from "~/lib/batches";
 import { PlanStateError, releasePlan, requestPlan } from "~/models/plans.server";
 import { createOrder } from "~/models/orders.server";
@@ -475,6 +476,29 @@ describe("plan cards", () => {
     await db.execute(sql.raw(`${backfill.trim().replace(/;$/, "")} AND "id" IN ('${ids.join("','")}')`));
     const again = await db.select({ id: t.plans.id, sheetSizes: t.plans.sheetSizes }).from(t.plans).where(inArray(t.plans.id, ids));
     expect(ids.map((id) => again.find((p) => p.id === id)!.sheetSizes)).toEqual(stored.map((p) => p.sheetSizes));
+  });
+
+  it("a plan's net cost takes off its offcuts at the material's cheapest sheet rate, as the ledger does; the migration's backfill agrees", async () => {
+    const s = await scenario(); // 6 mm birch: one 2440 × 1220 panel at 52.90
+    const [batchId] = await createBatches(s.shop.id, "2027-01-10", [s.birch6.id]);
+    const planId = await requestPlan(s.shop.id, batchId, settings());
+    const saved = await waitForPlan(planId, ["done"]);
+    expect(saved.costMinor).toBe(5290);
+    expect(saved.offcutAreaMm2).toBeGreaterThan(0);
+    // 52.90 over 2440 × 1220 mm = 2 976 800 mm², times the plan's offcut area
+    expect(saved.rackCreditMinor).toBe(Math.round((saved.offcutAreaMm2! * 5290) / 2_976_800));
+    const planner = await signIn(server, s.shop.users.planner);
+    const html = visible((await request(server).get(`/batches/${batchId}`).set("Cookie", planner)).text);
+    const card = html.slice(html.indexOf('data-plan="1"'), html.indexOf("</article>", html.indexOf('data-plan="1"')));
+    expect(card).toContain(`>Net of offcuts<`);
+    expect(card).toContain(`>${formatMoney(5290 - saved.rackCreditMinor!, "EUR")}<`);
+
+    const migration = readFileSync(new URL("../../db/migrations/0012_plan-rack-credit.sql", import.meta.url), "utf8");
+    const backfill = migration.slice(migration.indexOf("UPDATE"));
+    await db.update(t.plans).set({ rackCreditMinor: null }).where(eq(t.plans.id, planId));
+    await db.execute(sql.raw(`${backfill.trim().replace(/;$/, "")} AND "id" = '${planId}'`));
+    const [again] = await db.select({ rackCreditMinor: t.plans.rackCreditMinor }).from(t.plans).where(eq(t.plans.id, planId));
+    expect(again.rackCreditMinor).toBe(saved.rackCreditMinor);
   });
 
   it("the plan view names each panel by its stock, as the catalogue does: a stock panel's size, or a racked offcut", async () => {
