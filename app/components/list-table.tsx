@@ -85,7 +85,7 @@ export function ListTable<T extends { id: string }>({ rows, columns, total, page
 }
 
 function PageLink({ to, disabled, children }: { to: string; disabled: boolean; children: ReactNode }) {
-  if (disabled) return <span className="rounded-md border border-line px-3 py-2 opacity-40">{children}</span>;
+  if (disabled) return <span aria-disabled="true" className="rounded-md border border-line px-3 py-2 opacity-40">{children}</span>;
   return (
     <a href={to} className="rounded-md border border-line bg-white px-3 py-2 text-ink hover:border-edge">
       {children}

@@ -45,21 +45,30 @@ export function MaterialCard({ material, unit, currency, canWrite, actionData }:
       {material.panels.length === 0 ? (
         <p className="text-sm text-muted">No stock panels yet.</p>
       ) : (
-        <div className="text-sm" role="table" aria-label={`Stock panels of ${material.name}`}>
-          <div role="row" className="grid grid-cols-[1.4fr_1fr_1fr_0.8fr_4.5rem] gap-2 border-b border-line pb-2 text-xs font-semibold uppercase tracking-wider text-muted">
-            <span role="columnheader">Panel</span>
-            <span role="columnheader">Grain</span>
-            <span role="columnheader" className="text-right">Cost each</span>
-            <span role="columnheader" className="text-right">On hand</span>
-            <span role="columnheader" className="sr-only">Change</span>
+        // Read-only, a table; editable, a list of rows that open (a table's rows cannot be toggles),
+        // each row saying what its figures are to a screen reader.
+        <div className="text-sm" role={canWrite ? "list" : "table"} aria-label={`Stock panels of ${material.name}`}>
+          <div role={canWrite ? undefined : "row"} aria-hidden={canWrite || undefined} className="grid grid-cols-[1.4fr_1fr_1fr_0.8fr_4.5rem] gap-2 border-b border-line pb-2 text-xs font-semibold uppercase tracking-wider text-muted">
+            <span role={canWrite ? undefined : "columnheader"}>Panel</span>
+            <span role={canWrite ? undefined : "columnheader"}>Grain</span>
+            <span role={canWrite ? undefined : "columnheader"} className="text-right">Cost each</span>
+            <span role={canWrite ? undefined : "columnheader"} className="text-right">On hand</span>
+            <span role={canWrite ? undefined : "columnheader"} className="sr-only">Change</span>
           </div>
           {material.panels.map((p) => {
+            const cell = canWrite ? undefined : "cell";
             const cells = (
               <>
-                <span role="cell" className="font-medium tabular-nums">{formatSize(p.lengthUm, p.widthUm, unit)}</span>
-                <span role="cell">{GRAIN_LABELS[p.grain]}</span>
-                <span role="cell" className="text-right tabular-nums">{formatMoney(p.costMinor, currency)}</span>
-                <span role="cell" className="text-right tabular-nums">{p.onHand}</span>
+                <span role={cell} className="font-medium tabular-nums">{formatSize(p.lengthUm, p.widthUm, unit)}</span>
+                <span role={cell}>{GRAIN_LABELS[p.grain]}</span>
+                <span role={cell} className="text-right tabular-nums">
+                  {canWrite && <span className="sr-only">cost each </span>}
+                  {formatMoney(p.costMinor, currency)}
+                </span>
+                <span role={cell} className="text-right tabular-nums">
+                  {canWrite && <span className="sr-only">on hand </span>}
+                  {p.onHand}
+                </span>
               </>
             );
             const row = "grid grid-cols-[1.4fr_1fr_1fr_0.8fr_4.5rem] items-center gap-2 py-2";
@@ -71,22 +80,24 @@ export function MaterialCard({ material, unit, currency, canWrite, actionData }:
               );
             }
             return (
-              <details key={p.id} open={Boolean(own(actionData, "edit-panel", p.id))} className="border-b border-line">
-                <summary role="row" className={`${row} cursor-pointer list-none [&::-webkit-details-marker]:hidden`}>
-                  {cells}
-                  <span role="cell" className="text-right font-medium text-edge">Change</span>
-                </summary>
-                <div className="space-y-3 pb-4 pt-1">
-                  <PanelForm key={actionData?.stamp} materialId={material.id} panel={p} unit={unit} currency={currency} actionData={actionData} />
-                  <Form method="post">
-                    <input type="hidden" name="intent" value="remove-panel" />
-                    <input type="hidden" name="panelId" value={p.id} />
-                    <button type="submit" className="min-h-11 rounded-md border border-bad/40 px-4 text-sm font-medium text-bad hover:bg-bad-soft">
-                      Remove this panel
-                    </button>
-                  </Form>
-                </div>
-              </details>
+              <div key={p.id} role="listitem" className="border-b border-line">
+                <details open={Boolean(own(actionData, "edit-panel", p.id))}>
+                  <summary className={`${row} cursor-pointer list-none [&::-webkit-details-marker]:hidden`}>
+                    {cells}
+                    <span className="text-right font-medium text-edge">Change</span>
+                  </summary>
+                  <div className="space-y-3 pb-4 pt-1">
+                    <PanelForm key={actionData?.stamp} materialId={material.id} panel={p} unit={unit} currency={currency} actionData={actionData} />
+                    <Form method="post">
+                      <input type="hidden" name="intent" value="remove-panel" />
+                      <input type="hidden" name="panelId" value={p.id} />
+                      <button type="submit" className="min-h-11 rounded-md border border-bad/40 px-4 text-sm font-medium text-bad hover:bg-bad-soft">
+                        Remove this panel
+                      </button>
+                    </Form>
+                  </div>
+                </details>
+              </div>
             );
           })}
         </div>

@@ -186,7 +186,6 @@ export function PanelDrawing({ sheet, labels, kerfMm, title, unit = "mm", trimMm
         {sheet.placements.map((placement, index) => {
           const label = labelOf(placement.partId, placement.length, placement.width);
           const y = flipY(placement.y, placement.width);
-          const layout = layoutText([label.name, label.size], placement.length, placement.width, minText, minText * MAX_TEXT_SCALE);
           const orders = label.origins.length ? `, for ${label.origins.join("; ")}` : "";
           const isChosen = selected === index;
           return (
@@ -211,10 +210,18 @@ export function PanelDrawing({ sheet, labels, kerfMm, title, unit = "mm", trimMm
                 className={isChosen ? "fill-edge/35 stroke-edge-dark" : "fill-edge-soft stroke-edge"}
                 strokeWidth={isChosen ? stroke * 3 : stroke}
               />
-              {layout && <RectText layout={layout} cx={placement.x + placement.length / 2} cy={y + placement.width / 2} className="fill-ink" />}
             </g>
           );
         })}
+        {/* The parts' names drawn over them, apart from the controls: each part's own label says the same, with its orders. */}
+        <g aria-hidden="true" pointerEvents="none">
+          {sheet.placements.map((placement, index) => {
+            const label = labelOf(placement.partId, placement.length, placement.width);
+            const y = flipY(placement.y, placement.width);
+            const layout = layoutText([label.name, label.size], placement.length, placement.width, minText, minText * MAX_TEXT_SCALE);
+            return layout && <RectText key={index} layout={layout} cx={placement.x + placement.length / 2} cy={y + placement.width / 2} className="fill-ink" />;
+          })}
+        </g>
 
         {/* Cut lines at the kerf's centre, numbered in cutting order at their start. */}
         <g pointerEvents="none">

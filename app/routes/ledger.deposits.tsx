@@ -3,6 +3,7 @@ import type { Route } from "./+types/ledger.deposits";
 import { requirePermission } from "~/auth.server";
 import { MonthChoice } from "~/components/month-choice";
 import { PageHeader } from "~/components/page-header";
+import { ScrollRegion } from "~/components/scroll-region";
 import { DEPOSIT_STATUS_LABELS } from "~/lib/deposits";
 import { formatMoney } from "~/lib/money";
 import { depositLedger } from "~/models/deposit-ledger.server";
@@ -36,11 +37,11 @@ export default function DepositLedger({ loaderData }: Route.ComponentProps) {
       </Form>
 
       <section className="space-y-3">
-        <h2 className="text-xl font-semibold">{period.label}: orders with deposits</h2>
+        <h2 id="deposit-orders" className="text-xl font-semibold">{period.label}: orders with deposits</h2>
         <p className="text-sm text-muted">
           Received {money(totals.receivedInPeriodMinor)} · refunded {money(totals.refundedInPeriodMinor)} in this period. Paid and refunded count each order to date; the balance after deposit is what the order total leaves to collect.
         </p>
-        <div className="overflow-x-auto rounded-lg border border-line bg-card">
+        <ScrollRegion labelledBy="deposit-orders">
           <table className="w-full min-w-[46rem] text-left text-sm" data-testid="deposit-orders">
             <thead className="border-b border-line text-xs uppercase tracking-wider text-muted">
               <tr>
@@ -57,7 +58,7 @@ export default function DepositLedger({ loaderData }: Route.ComponentProps) {
               {orders.map((o) => (
                 <tr key={o.orderId}>
                   <th className="px-3 py-2 font-medium">
-                    <Link to={`/orders/${o.orderId}`} className="text-edge hover:underline">
+                    <Link to={`/orders/${o.orderId}`} className="text-edge underline decoration-edge/40 underline-offset-2 hover:decoration-edge">
                       #{o.orderNumber}
                     </Link>{" "}
                     <span className="font-normal">{o.customerName}</span>
@@ -79,12 +80,12 @@ export default function DepositLedger({ loaderData }: Route.ComponentProps) {
               )}
             </tbody>
           </table>
-        </div>
+        </ScrollRegion>
       </section>
 
       <section className="space-y-3">
-        <h2 className="text-xl font-semibold">By month, last twelve months</h2>
-        <div className="overflow-x-auto rounded-lg border border-line bg-card">
+        <h2 id="deposit-months" className="text-xl font-semibold">By month, last twelve months</h2>
+        <ScrollRegion labelledBy="deposit-months">
           <table className="w-full text-left text-sm" data-testid="deposit-months">
             <thead className="border-b border-line text-xs uppercase tracking-wider text-muted">
               <tr>
@@ -109,7 +110,7 @@ export default function DepositLedger({ loaderData }: Route.ComponentProps) {
               ))}
             </tbody>
           </table>
-        </div>
+        </ScrollRegion>
       </section>
     </div>
   );

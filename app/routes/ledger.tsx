@@ -5,6 +5,7 @@ import { requirePermission } from "~/auth.server";
 import { LedgerChart } from "~/components/ledger-chart";
 import { MonthChoice } from "~/components/month-choice";
 import { PageHeader } from "~/components/page-header";
+import { ScrollRegion } from "~/components/scroll-region";
 import { formatDate } from "~/lib/dates";
 import { formatArea } from "~/lib/ledger";
 import { yieldOf, type Figures } from "~/lib/ledger-report";
@@ -68,8 +69,8 @@ export default function Ledger({ loaderData }: Route.ComponentProps) {
       </Form>
 
       <section className="space-y-3">
-        <h2 className="text-xl font-semibold">{period.label}: per material</h2>
-        <div className="overflow-x-auto rounded-lg border border-line bg-card">
+        <h2 id="per-material" className="text-xl font-semibold">{period.label}: per material</h2>
+        <ScrollRegion labelledBy="per-material">
           <table className="w-full min-w-[64rem] text-left text-sm" data-testid="ledger-summary">
             <thead className="border-b border-line text-xs uppercase tracking-wider text-muted">
               <tr>
@@ -111,7 +112,7 @@ export default function Ledger({ loaderData }: Route.ComponentProps) {
               </tr>
             </tfoot>
           </table>
-        </div>
+        </ScrollRegion>
       </section>
 
       <section className="space-y-3">

@@ -40,7 +40,7 @@ function NavItems({ areas, outbox, onNavigate }: { areas: Area[]; outbox: boolea
               }`}
             >
               <span>{item.label}</span>
-              <span className="text-xs text-rail-ink/60">{item.note}</span>
+              <span className="text-xs text-rail-ink/70">{item.note}</span>
             </a>
           </li>
         );
@@ -84,18 +84,17 @@ function Frame({ shell, children }: { shell: ShellData | undefined; children: Re
         </div>
       </aside>
 
-      <header className="sticky top-0 z-10 bg-rail text-rail-ink lg:hidden">
+      <header className="sticky top-0 z-10 flex items-center justify-between bg-rail px-4 py-3 text-rail-ink lg:hidden">
+        <Link to="/" className="text-white">
+          <Wordmark />
+        </Link>
+        {/* the wordmark stays outside the summary: a link inside the menu's toggle would be a control within a control */}
         <details className="group">
-          <summary className="flex cursor-pointer list-none items-center justify-between px-4 py-3 [&::-webkit-details-marker]:hidden">
-            <Link to="/" className="text-white">
-              <Wordmark />
-            </Link>
-            <span className="rounded-md border border-rail-ink/30 px-3 py-1.5 text-sm">
-              <span className="group-open:hidden">Menu</span>
-              <span className="hidden group-open:inline">Close</span>
-            </span>
+          <summary className="cursor-pointer list-none rounded-md border border-rail-ink/30 px-3 py-1.5 text-sm [&::-webkit-details-marker]:hidden">
+            <span className="group-open:hidden">Menu</span>
+            <span className="hidden group-open:inline">Close</span>
           </summary>
-          <nav aria-label="Areas" className="space-y-3 border-t border-rail-ink/20 px-2 pb-3 pt-2">
+          <nav aria-label="Areas" className="absolute inset-x-0 top-full max-h-[calc(100dvh-3.5rem)] space-y-3 overflow-y-auto border-t border-rail-ink/20 bg-rail px-2 pb-3 pt-2">
             <NavItems
               areas={allAreas}
               outbox={outbox}
