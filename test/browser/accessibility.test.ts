@@ -76,7 +76,7 @@ describe("accessibility of the main screens (axe-core, WCAG 2.1 AA)", () => {
       "/team",
       "/settings",
     );
-  });
+  }, 180_000); // the app, a browser and a plan run to its end
   afterAll(async () => {
     await browser?.close();
     await app?.stop();
@@ -100,6 +100,6 @@ describe("accessibility of the main screens (axe-core, WCAG 2.1 AA)", () => {
       }
       expect(found).toEqual({});
       await context.close();
-    });
+    }, 240_000); // 21 pages: about 25 s here, several times that on a slow, busy machine
   }
 });
