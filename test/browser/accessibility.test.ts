@@ -1,4 +1,4 @@
-// Every main screen, at phone and desktop widths, checked by axe-core (WCAG 2.1 A and AA rules:
+// Every main screen and the public pages, at phone and desktop widths, checked by axe-core (WCAG 2.1 A and AA rules:
 // contrast, names and labels, ARIA structure, keyboard reach) in chromium, with real data on it.
 import { readFileSync } from "node:fs";
 import { createRequire } from "node:module";
@@ -16,6 +16,9 @@ import { addSaw, addSled, recordKerf, recordSledCheck } from "~/models/sleds.ser
 
 const axeSource = readFileSync(createRequire(import.meta.url).resolve("axe-core/axe.min.js"), "utf8");
 const WCAG = ["wcag2a", "wcag2aa", "wcag21a", "wcag21aa"];
+const PAY_TOKEN = "accessibility-test-pay-link-0001";
+/** Pages anyone may open: signing in and up, a forgotten password, a customer's deposit link. */
+const PUBLIC = ["/sign-in", "/sign-up", "/forgot-password", `/pay/${PAY_TOKEN}`];
 
 type Violation = { id: string; impact: string | null; help: string; targets: string[] };
 
@@ -54,6 +57,8 @@ describe("accessibility of the main screens (axe-core, WCAG 2.1 AA)", () => {
     }
     await releasePlan(s.shop.id, six, planId);
     const [customer] = await getDb().select({ id: t.customers.id }).from(t.customers).where(eq(t.customers.shopId, s.shop.id)).limit(1);
+    // the customer's page behind an e-mailed deposit link
+    await getDb().insert(t.deposits).values({ shopId: s.shop.id, orderId: s.wedding.id, amountMinor: 6060, currency: "EUR", linkToken: PAY_TOKEN });
     pages.push(
       "/",
       "/orders",
@@ -83,14 +88,17 @@ describe("accessibility of the main screens (axe-core, WCAG 2.1 AA)", () => {
   });
 
   for (const width of ["phone", "desktop"] as const) {
-    it(`no WCAG 2.1 A or AA violations on the owner's screens and the sign-in page, ${width} width`, async () => {
+    it(`no WCAG 2.1 A or AA violations on the public pages and the owner's screens, ${width} width`, async () => {
       // axe is injected as a script: the app's content security policy rightly refuses inline scripts
       const context = await browser.newContext({ viewport: VIEWPORTS[width], bypassCSP: true });
       const page = await context.newPage();
       const found: Record<string, Violation[]> = {};
-      await page.goto(`${app.url}/sign-in`, { waitUntil: "networkidle" });
-      const signIn = await violations(page);
-      if (signIn.length) found["/sign-in"] = signIn;
+      for (const path of PUBLIC) {
+        const res = await page.goto(`${app.url}${path}`, { waitUntil: "networkidle" });
+        expect(res?.status(), path).toBe(200);
+        const v = await violations(page);
+        if (v.length) found[path] = v;
+      }
       await signInThroughForm(page, app.url, s.shop.users.owner);
       for (const path of pages) {
         const res = await page.goto(`${app.url}${path}`, { waitUntil: "networkidle" });
@@ -100,6 +108,6 @@ describe("accessibility of the main screens (axe-core, WCAG 2.1 AA)", () => {
       }
       expect(found).toEqual({});
       await context.close();
-    }, 240_000); // 21 pages: about 25 s here, several times that on a slow, busy machine
+    }, 240_000); // 24 pages: about 25 s here, several times that on a slow, busy machine
   }
 });
