@@ -12,7 +12,7 @@ import { valueReturned } from "~/lib/ledger";
 import { sheetSizes } from "~/lib/stock-names";
 import { pack, validatePlan, type ValidationResult } from "~/lib/packing";
 import { getShop } from "~/models/shops.server";
-import { buildPackingJob, type StockRef } from "~/models/plan-job.server";
+import { buildPackingJob, cheapestCostPerArea, type StockRef } from "~/models/plan-job.server";
 import type { PlanResult } from "~/models/plans.server";
 import { PLAN_QUEUE, queue, type PlanJobData } from "./queue.server";
 
@@ -127,7 +127,6 @@ async function planAndSave(plan: typeof plans.$inferSelect, engine: PlanEngine, 
   let outcome: Outcome;
   let stockRefs: PlanResult["stockRefs"] = {};
   let blanks = 0;
-  let offcutRatePerMm2 = 0;
   try {
     // Only reads: after a restart of PostgreSQL a pooled connection may fail once, so they are retried.
     const built = await untilDatabaseAnswers(async () => {
@@ -136,7 +135,6 @@ async function planAndSave(plan: typeof plans.$inferSelect, engine: PlanEngine, 
     }, PREPARE_PATIENCE_MS);
     stockRefs = built.stockRefs;
     blanks = built.cutList.blanks.length;
-    offcutRatePerMm2 = built.offcutRatePerMm2;
     const bounded = checkJobLimits(built.job);
     if (!bounded.ok) outcome = { kind: "failed", reason: `The batch is beyond what one plan can take (${bounded.error}).` };
     else if (built.job.parts.length === 0) outcome = { kind: "failed", reason: "The batch has no parts to cut." };
@@ -149,7 +147,7 @@ async function planAndSave(plan: typeof plans.$inferSelect, engine: PlanEngine, 
     const reason = isDatabaseUnavailable(error) ? "The database was away while the plan was being prepared. Run the plan again." : error instanceof Error ? error.message : String(error);
     outcome = { kind: "failed", reason };
   }
-  await untilDatabaseAnswers(() => finish(db, plan.id, plan.batchId, outcome, stockRefs, blanks, offcutRatePerMm2, now ?? new Date()), SAVE_PATIENCE_MS);
+  await untilDatabaseAnswers(() => finish(db, plan.id, plan.batchId, outcome, stockRefs, blanks, now ?? new Date()), SAVE_PATIENCE_MS);
 }
 
 // A plan that took minutes is not thrown away because PostgreSQL restarted as it ended: the save
@@ -209,7 +207,7 @@ function runInWorker(planId: string, job: Job): Promise<Outcome> {
   });
 }
 
-async function finish(db: Queryable, planId: string, batchId: string, outcome: Outcome, stockRefs: PlanResult["stockRefs"], blanks: number, offcutRatePerMm2: number, finishedAt: Date) {
+async function finish(db: Queryable, planId: string, batchId: string, outcome: Outcome, stockRefs: PlanResult["stockRefs"], blanks: number, finishedAt: Date) {
   const stillRunning = and(eq(plans.id, planId), eq(plans.status, "running"));
   if (outcome.kind === "cancelled") return; // the row already says cancelled
   if (outcome.kind === "failed") {
@@ -218,6 +216,8 @@ async function finish(db: Queryable, planId: string, batchId: string, outcome: O
   }
   const { plan } = outcome;
   const costMinor = plan.sheets.reduce((sum, sheet) => sum + (stockRefs[sheet.stockId]?.costMinor ?? 0), 0);
+  // the offcuts it leaves, at the rate racked offcuts are priced by: the cheapest stock panel per area
+  const offcutRatePerMm2 = cheapestCostPerArea(Object.values(stockRefs).filter((ref) => ref.kind === "panel")) * 1e6;
   const result: PlanResult = { plan, stockRefs, blanks };
   await db.transaction(async (tx) => {
     const saved = await tx

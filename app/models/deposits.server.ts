@@ -41,7 +41,7 @@ export async function proposedDepositRefusal(shopId: string, orderId: string): P
  * Asks a deposit of an order by the shop's rule: one open or paid deposit per order at a time (a
  * refunded one may be asked again). The order row is locked so a double click asks once.
  */
-export async function openDeposit(shopId: string, orderId: string): Promise<{ id: string; linkToken: string; amountMinor: number; currency: string }> {
+export async function openDeposit(shopId: string, orderId: string): Promise<{ id: string; linkToken: string; amountMinor: number; currency: string; again: boolean }> {
   return getDb().transaction(async (tx) => {
     const [order] = await tx.select({ id: orders.id, status: orders.status }).from(orders).where(and(eq(orders.id, orderId), eq(orders.shopId, shopId))).for("update");
     if (!order) throw new DepositError("No such order in this shop.");
@@ -51,7 +51,7 @@ export async function openDeposit(shopId: string, orderId: string): Promise<{ id
       .from(deposits)
       .where(and(eq(deposits.shopId, shopId), eq(deposits.orderId, order.id), inArray(deposits.status, ["requested", "paid", "refund_pending"])));
     if (active) {
-      if (active.status === "requested") return active;
+      if (active.status === "requested") return { ...active, again: true }; // asked before and not paid: the same link
       throw new DepositError("This order's deposit is already paid.");
     }
     const [shop] = await tx.select().from(shops).where(eq(shops.id, shopId));
@@ -64,7 +64,7 @@ export async function openDeposit(shopId: string, orderId: string): Promise<{ id
       .insert(deposits)
       .values({ shopId, orderId: order.id, amountMinor, currency: shop.currency, linkToken: randomBytes(24).toString("base64url") })
       .returning({ id: deposits.id, linkToken: deposits.linkToken, amountMinor: deposits.amountMinor, currency: deposits.currency });
-    return row;
+    return { ...row, again: false };
   });
 }
 

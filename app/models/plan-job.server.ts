@@ -104,8 +104,7 @@ export async function buildPackingJob(shop: ShopSettings, batch: { id: string; m
       stopMax: umToMm(sled?.stopMaxUm ?? shop.stopMaxUm),
     },
   };
-  // offcuts the plan leaves are worth the same rate (the ledger credits them when they are racked)
-  return { job, stockRefs, cutList, offcutRatePerMm2: costPerUm2 * 1e6 };
+  return { job, stockRefs, cutList };
 }
 
 /** Offcuts are valued at the material's cheapest full-sheet price per area (the ledger uses the same rule). */

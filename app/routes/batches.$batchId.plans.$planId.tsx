@@ -6,7 +6,7 @@ import { PageHeader } from "~/components/page-header";
 import { PanelDrawing, SetupList, type PartLabel } from "~/components/panel-drawing";
 import { mmToUm } from "~/lib/packing";
 import { can } from "~/lib/permissions";
-import { sheetSizes, stockDrawn, stockName } from "~/lib/stock-names";
+import { stockDrawn, stockName } from "~/lib/stock-names";
 import { formatSize } from "~/lib/units";
 import { getBatch } from "~/models/batches.server";
 import { batchCutList, LASER_BLANK_PART } from "~/models/plan-job.server";
@@ -37,8 +37,7 @@ export async function loader(args: Route.LoaderArgs) {
     return { sheet, offcut: ref?.kind === "offcut", title: `Panel ${i + 1} of ${packed.sheets.length}: ${stockName(ref?.kind, size)}` };
   });
   const offcutsUsed = sheets.filter((s) => s.offcut).length;
-  const sizes = sheetSizes(packed.sheets.filter((sheet) => stockRefs[sheet.stockId]?.kind !== "offcut").map((sheet) => ({ lengthUm: mmToUm(sheet.length), widthUm: mmToUm(sheet.width) })));
-  return { batch, number: plan.number, sheets, stock: stockDrawn(sizes, offcutsUsed, unit), labels, setups: packed.setups, kerf: plan.settings.kerfMm, unit, unplaced: packed.unplaced, metrics: packed.metrics, ripMaxMm: shop.ripMaxUm / 1000, printable: batch.chosenPlanId === plan.id && batch.status !== "open" && batch.status !== "planned" && can(user.role, "floor:read") };
+  return { batch, number: plan.number, sheets, stock: stockDrawn(plan.sheetSizes ?? [], offcutsUsed, unit), labels, setups: packed.setups, kerf: plan.settings.kerfMm, unit, unplaced: packed.unplaced, metrics: packed.metrics, ripMaxMm: shop.ripMaxUm / 1000, printable: batch.chosenPlanId === plan.id && batch.status !== "open" && batch.status !== "planned" && can(user.role, "floor:read") };
 }
 
 export default function PlanView({ loaderData }: Route.ComponentProps) {

@@ -116,9 +116,7 @@ export async function action(args: Route.ActionArgs) {
       case "request-deposit": {
         if (!(await getOrder(user.shopId, orderId))) throw notFound();
         if (!paymentsConfigured()) return fail("Payments are not set up on this server.");
-        const before = await orderDeposit(user.shopId, orderId);
-        const again = before?.status === "requested"; // the same link again, as a reminder
-        await openDeposit(user.shopId, orderId);
+        const { again } = await openDeposit(user.shopId, orderId);
         try {
           await sendDepositRequest(user.shopId, orderId, publicOrigin(args.request));
         } catch (e) {
