@@ -20,6 +20,8 @@ function own(result: Result, intent: string, target: string) {
 export function MaterialCard({ material, unit, currency, canWrite, actionData }: { material: Material; unit: DisplayUnit; currency: string; canWrite: boolean; actionData: Result }) {
   const editing = own(actionData, "edit-material", material.id);
   const addingPanel = own(actionData, "add-panel", material.id);
+  // table roles only when read-only: editable rows open and close, which table rows cannot
+  const table = canWrite ? { row: undefined, header: undefined, cell: undefined } : ({ row: "row", header: "columnheader", cell: "cell" } as const);
   return (
     <article className="space-y-4 rounded-lg border border-line bg-card p-5" aria-labelledby={`material-${material.id}`} data-material={material.name}>
       <header className="flex flex-wrap items-start justify-between gap-3">
@@ -45,27 +47,25 @@ export function MaterialCard({ material, unit, currency, canWrite, actionData }:
       {material.panels.length === 0 ? (
         <p className="text-sm text-muted">No stock panels yet.</p>
       ) : (
-        // Read-only, a table; editable, a list of rows that open (a table's rows cannot be toggles),
-        // each row saying what its figures are to a screen reader.
+        // editable, a list of rows that open, each saying what its figures are to a screen reader
         <div className="text-sm" role={canWrite ? "list" : "table"} aria-label={`Stock panels of ${material.name}`}>
-          <div role={canWrite ? undefined : "row"} aria-hidden={canWrite || undefined} className="grid grid-cols-[1.4fr_1fr_1fr_0.8fr_4.5rem] gap-2 border-b border-line pb-2 text-xs font-semibold uppercase tracking-wider text-muted">
-            <span role={canWrite ? undefined : "columnheader"}>Panel</span>
-            <span role={canWrite ? undefined : "columnheader"}>Grain</span>
-            <span role={canWrite ? undefined : "columnheader"} className="text-right">Cost each</span>
-            <span role={canWrite ? undefined : "columnheader"} className="text-right">On hand</span>
-            <span role={canWrite ? undefined : "columnheader"} className="sr-only">Change</span>
+          <div role={table.row} aria-hidden={canWrite || undefined} className="grid grid-cols-[1.4fr_1fr_1fr_0.8fr_4.5rem] gap-2 border-b border-line pb-2 text-xs font-semibold uppercase tracking-wider text-muted">
+            <span role={table.header}>Panel</span>
+            <span role={table.header}>Grain</span>
+            <span role={table.header} className="text-right">Cost each</span>
+            <span role={table.header} className="text-right">On hand</span>
+            <span role={table.header} className="sr-only">Change</span>
           </div>
           {material.panels.map((p) => {
-            const cell = canWrite ? undefined : "cell";
             const cells = (
               <>
-                <span role={cell} className="font-medium tabular-nums">{formatSize(p.lengthUm, p.widthUm, unit)}</span>
-                <span role={cell}>{GRAIN_LABELS[p.grain]}</span>
-                <span role={cell} className="text-right tabular-nums">
+                <span role={table.cell} className="font-medium tabular-nums">{formatSize(p.lengthUm, p.widthUm, unit)}</span>
+                <span role={table.cell}>{GRAIN_LABELS[p.grain]}</span>
+                <span role={table.cell} className="text-right tabular-nums">
                   {canWrite && <span className="sr-only">cost each </span>}
                   {formatMoney(p.costMinor, currency)}
                 </span>
-                <span role={cell} className="text-right tabular-nums">
+                <span role={table.cell} className="text-right tabular-nums">
                   {canWrite && <span className="sr-only">on hand </span>}
                   {p.onHand}
                 </span>

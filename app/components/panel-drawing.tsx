@@ -124,6 +124,8 @@ export function PanelDrawing({ sheet, labels, kerfMm, title, unit = "mm", trimMm
 
   const labelOf = (partId: string, length: number, width: number): PartLabel =>
     labels[partId] ?? { name: partId, size: formatSize(mmToUmRounded(length), mmToUmRounded(width), unit), origins: [] };
+  // each placed part with its label and drawing position, read by the part controls and the name layer
+  const parts = sheet.placements.map((placement) => ({ placement, label: labelOf(placement.partId, placement.length, placement.width), y: flipY(placement.y, placement.width) }));
   const chosen = selected === null ? null : sheet.placements[selected];
   const chosenLabel = chosen ? labelOf(chosen.partId, chosen.length, chosen.width) : null;
 
@@ -183,9 +185,7 @@ export function PanelDrawing({ sheet, labels, kerfMm, title, unit = "mm", trimMm
         {sheet.offcuts.map((rect, i) => leftover(rect, i, "offcut"))}
         {sheet.scrap.map((rect, i) => leftover(rect, i, "scrap"))}
 
-        {sheet.placements.map((placement, index) => {
-          const label = labelOf(placement.partId, placement.length, placement.width);
-          const y = flipY(placement.y, placement.width);
+        {parts.map(({ placement, label, y }, index) => {
           const orders = label.origins.length ? `, for ${label.origins.join("; ")}` : "";
           const isChosen = selected === index;
           return (
@@ -215,9 +215,7 @@ export function PanelDrawing({ sheet, labels, kerfMm, title, unit = "mm", trimMm
         })}
         {/* The parts' names drawn over them, apart from the controls: each part's own label says the same, with its orders. */}
         <g aria-hidden="true" pointerEvents="none">
-          {sheet.placements.map((placement, index) => {
-            const label = labelOf(placement.partId, placement.length, placement.width);
-            const y = flipY(placement.y, placement.width);
+          {parts.map(({ placement, label, y }, index) => {
             const layout = layoutText([label.name, label.size], placement.length, placement.width, minText, minText * MAX_TEXT_SCALE);
             return layout && <RectText key={index} layout={layout} cx={placement.x + placement.length / 2} cy={y + placement.width / 2} className="fill-ink" />;
           })}
