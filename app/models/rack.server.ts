@@ -1,6 +1,7 @@
-import { and, asc, desc, eq, inArray } from "drizzle-orm";
+import { and, asc, eq, inArray } from "drizzle-orm";
 import { batches, materials, offcuts, stockPanels } from "../../db/schema";
 import { getDb } from "~/db.server";
+import { byRackOrder } from "~/lib/rack-order";
 
 /** The rack and the sheet stock, per material. */
 export async function rackOverview(shopId: string) {
@@ -12,8 +13,7 @@ export async function rackOverview(shopId: string) {
       .from(offcuts)
       .leftJoin(batches, eq(batches.id, offcuts.sourceBatchId))
       .where(and(eq(offcuts.shopId, shopId), inArray(offcuts.status, ["racked", "reserved", "expected"])))
-      // oldest first; offcuts racked together (one release makes several) biggest first, in a fixed order
-      .orderBy(asc(offcuts.createdAt), desc(offcuts.lengthUm), desc(offcuts.widthUm), asc(offcuts.id)),
+      .then((rows) => rows.sort(byRackOrder)),
     db.select().from(stockPanels).where(eq(stockPanels.shopId, shopId)),
   ]);
   return mats.map((m) => ({

@@ -119,14 +119,19 @@ export default function Ledger({ loaderData }: Route.ComponentProps) {
         <h2 className="text-xl font-semibold">Batches cut</h2>
         <ul className="divide-y divide-line rounded-lg border border-line bg-card">
           {batches.map((b) => (
-            <li key={b.batchId} className="flex flex-wrap items-center justify-between gap-3 px-4 py-3">
-              <Link to={`/ledger/batches/${b.batchId}`} className="font-semibold text-edge hover:underline">
-                {b.batchCode}
-              </Link>
-              <span className="grow">{b.materialName}</span>
-              <span className="text-sm text-muted">cut {formatDate(b.cutAt.slice(0, 10))}</span>
-              <span className="tabular-nums">yield {(yieldOf(b) * 100).toFixed(1)} %</span>
-              <span className="tabular-nums">scrap {money(b.scrapCostMinor)}</span>
+            // two groups, so a narrow screen wraps every row the same way: the batch, then its figures
+            <li key={b.batchId} className="flex flex-wrap items-baseline justify-between gap-x-4 gap-y-1 px-4 py-3">
+              <span className="flex items-baseline gap-3">
+                <Link to={`/ledger/batches/${b.batchId}`} className="font-semibold text-edge hover:underline">
+                  {b.batchCode}
+                </Link>
+                <span>{b.materialName}</span>
+              </span>
+              <span className="flex flex-wrap items-baseline gap-x-4 gap-y-1">
+                <span className="text-sm text-muted">cut {formatDate(b.cutAt.slice(0, 10))}</span>
+                <span className="tabular-nums">yield {(yieldOf(b) * 100).toFixed(1)} %</span>
+                <span className="tabular-nums">scrap {money(b.scrapCostMinor)}</span>
+              </span>
             </li>
           ))}
           {batches.length === 0 && <li className="px-4 py-3 text-muted">None.</li>}
