@@ -1,11 +1,17 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/home";
 import { requirePermission } from "~/auth.server";
+import { AgendaList } from "~/components/agenda-list";
 import { areasFor } from "~/components/areas";
+import { agendaEntries } from "~/lib/agenda";
+import { shopAgenda } from "~/models/agenda.server";
+import { timed } from "~/timing.server";
 
-export function loader(args: Route.LoaderArgs) {
+export async function loader(args: Route.LoaderArgs) {
   const user = requirePermission(args, "dashboard:read");
-  return { name: user.name, role: user.role };
+  const now = new Date();
+  const facts = await timed("queries", () => shopAgenda(user.shopId, user.role, now));
+  return { name: user.name, role: user.role, agenda: agendaEntries(facts, now) };
 }
 
 const FLOW = [
@@ -30,6 +36,13 @@ export default function Home({ loaderData }: Route.ComponentProps) {
           part, and shows what each batch cost.
         </p>
       </header>
+
+      <section aria-labelledby="waiting" className="space-y-3">
+        <h2 id="waiting" className="text-xl font-semibold">
+          Waiting on the shop
+        </h2>
+        <AgendaList entries={loaderData.agenda} />
+      </section>
 
       <ol className="grid gap-3 sm:grid-cols-2 lg:grid-cols-5">
         {FLOW.map((item, i) => (

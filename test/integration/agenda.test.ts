@@ -1,0 +1,116 @@
+// The home page's list of what is waiting, against a real database: what counts as due soon, in no
+// batch, at the saw, a sled to check or a deposit unpaid, what each role is shown, and no other shop's work.
+import request from "supertest";
+import { beforeAll, describe, expect, it } from "vitest";
+import * as t from "../../db/schema";
+import { appServer, visible } from "../support/app";
+import { createShop, signIn, type TestShop } from "../support/factories";
+import { getDb } from "~/db.server";
+import { shopAgenda } from "~/models/agenda.server";
+
+const now = new Date("2026-12-02T09:00:00Z");
+const server = await appServer();
+let shop: TestShop;
+
+async function seedShop(s: TestShop, customerName: string) {
+  const db = getDb();
+  const [birch] = await db.insert(t.materials).values({ shopId: s.id, name: "Birch 6 mm", kind: "plywood", thicknessUm: 6000 }).returning();
+  const [product] = await db.insert(t.products).values({ shopId: s.id, name: "Table number", priceMinor: 450 }).returning();
+  await db.insert(t.productParts).values({ productId: product.id, materialId: birch.id, name: "Number card", lengthUm: 210_000, widthUm: 150_000 });
+  const [customer] = await db.insert(t.customers).values({ shopId: s.id, name: customerName }).returning();
+  const order = async (number: number, status: (typeof t.orderStatusEnum.enumValues)[number], dueDate: string, withLine = false) => {
+    const [o] = await db.insert(t.orders).values({ shopId: s.id, number, customerId: customer.id, eventDate: dueDate, dueDate, status }).returning();
+    if (withLine) await db.insert(t.orderLines).values({ orderId: o.id, productId: product.id, quantity: 18, unitPriceMinor: 450 });
+    return o;
+  };
+  const soon = await order(1, "confirmed", "2026-12-05", true);
+  await order(2, "draft", "2026-11-30");
+  await order(3, "confirmed", "2027-01-20", true); // beyond 14 days, and beyond the 21 days of batching
+  const ready = await order(4, "ready", "2026-12-03");
+  const cancelled = await order(5, "cancelled", "2026-12-04");
+  await db.insert(t.batches).values([
+    { shopId: s.id, number: 7, materialId: birch.id, dueBy: "2026-12-20", status: "open" },
+    { shopId: s.id, number: 6, materialId: birch.id, dueBy: "2026-12-10", status: "released" },
+    { shopId: s.id, number: 5, materialId: birch.id, dueBy: "2026-11-10", status: "cut" },
+  ]);
+  const [sled] = await db.insert(t.sleds).values({ shopId: s.id, name: "Big sled", stopMinUm: 20_000, stopMaxUm: 1_200_000, widestUm: 610_000 }).returning();
+  await db.insert(t.sledChecks).values({ shopId: s.id, sledId: sled.id, widthFirstEndUm: 25_000, widthSecondEndUm: 25_000, stripLengthUm: 400_000, pivotDistanceUm: 500_000, checkedAt: new Date("2026-08-01T10:00:00Z") });
+  const token = () => `tok${Math.random().toString(36).slice(2)}${Math.random().toString(36).slice(2)}`;
+  await db.insert(t.deposits).values([
+    { shopId: s.id, orderId: soon.id, amountMinor: 1500, currency: "EUR", linkToken: token() },
+    { shopId: s.id, orderId: cancelled.id, amountMinor: 900, currency: "EUR", linkToken: token() },
+    { shopId: s.id, orderId: ready.id, amountMinor: 2000, currency: "EUR", linkToken: token(), status: "paid" },
+  ]);
+}
+
+beforeAll(async () => {
+  shop = await createShop("Agenda");
+  await seedShop(shop, "Ardent–Vasquez wedding");
+  const other = await createShop("Agenda elsewhere");
+  await seedShop(other, "Someone else's wedding");
+});
+
+describe("what is waiting on the shop", () => {
+  it("gathers for the owner every kind of work, this shop's only", async () => {
+    const facts = await shopAgenda(shop.id, "owner", now);
+    expect(facts.today).toBe("2026-12-02");
+    // open orders due within 14 days, soonest first: not the ready, cancelled or later ones
+    expect(facts.dueSoon?.total).toBe(2);
+    expect(facts.dueSoon?.orders.map((o) => [o.number, o.dueDate, o.status, o.customerName])).toEqual([
+      [2, "2026-11-30", "draft", "Ardent–Vasquez wedding"],
+      [1, "2026-12-05", "confirmed", "Ardent–Vasquez wedding"],
+    ]);
+    expect(facts.drafts).toBe(1);
+    expect(facts.ready).toBe(1);
+    // the confirmed line due within 21 days; order 3's line is due later
+    expect(facts.unbatched).toEqual({ lines: 1, recuts: 0, dueBy: "2026-12-23" });
+    expect(facts.batches?.map((b) => [b.number, b.status])).toEqual([
+      [6, "released"],
+      [7, "open"],
+    ]);
+    expect(facts.sleds?.list.map((s) => [s.name, s.lastCheck?.checkedAt.toISOString()])).toEqual([["Big sled", "2026-08-01T10:00:00.000Z"]]);
+    expect(facts.sleds?.toleranceUmPerM).toBe(150);
+    // asked and unpaid, on an order that is not cancelled
+    expect(facts.unpaidDeposits).toEqual({ count: 1, amounts: [{ amountMinor: 1500, currency: "EUR" }] });
+  });
+
+  it("gives each role only what it may read: the sawyer the saw and the sleds, the bookkeeper orders and deposits", async () => {
+    const sawyer = await shopAgenda(shop.id, "sawyer", now);
+    expect(sawyer.dueSoon).toBeUndefined();
+    expect(sawyer.unbatched).toBeUndefined();
+    expect(sawyer.unpaidDeposits).toBeUndefined();
+    expect(sawyer.batches?.map((b) => b.status)).toEqual(["released"]);
+    expect(sawyer.sleds?.list).toHaveLength(1);
+
+    const books = await shopAgenda(shop.id, "bookkeeper", now);
+    expect(books.dueSoon?.total).toBe(2);
+    expect([books.drafts, books.ready, books.unbatched, books.batches, books.sleds]).toEqual([undefined, undefined, undefined, undefined, undefined]);
+    expect(books.unpaidDeposits?.count).toBe(1);
+
+    const planner = await shopAgenda(shop.id, "planner", now);
+    expect(planner.unbatched?.lines).toBe(1);
+    expect(planner.batches).toHaveLength(2);
+    expect([planner.drafts, planner.sleds, planner.unpaidDeposits]).toEqual([undefined, undefined, undefined]);
+  });
+
+  it("shows on the home page, each entry linked to where the work is done", async () => {
+    const owner = await signIn(server, shop.users.owner);
+    const res = await request(server).get("/").set("Cookie", owner);
+    expect(res.status).toBe(200);
+    const text = visible(res.text);
+    expect(text).toContain("Waiting on the shop");
+    expect(text).toContain("1 draft order not confirmed yet");
+    expect(text).toContain("1 order ready to hand over");
+    expect(text).toContain("1 sled to check for square");
+    expect(text).toContain("1 deposit asked and not paid, €15.00 in all");
+    expect(text).not.toContain("Someone else's wedding");
+    expect(res.text).toContain('href="/orders?status=draft"');
+    expect(res.text).toContain('href="/sleds"');
+
+    const sawyer = await signIn(server, shop.users.sawyer);
+    const floor = visible((await request(server).get("/").set("Cookie", sawyer)).text);
+    expect(floor).toContain("1 batch at the saw");
+    expect(floor).not.toContain("draft order");
+    expect(floor).not.toContain("deposit asked");
+  });
+});
