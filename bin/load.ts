@@ -269,6 +269,7 @@ const someOrders = s.orderIds.filter((_, k) => k % 50 === 0).map((id) => `/order
 const someBatches = s.batchIds.filter((_, k) => k % 4 === 0);
 let written = 0;
 const routes: Route[] = [
+  { name: "/ (home: what is waiting)", role: "owner", kind: "page", paths: cycle(["/"]) },
   { name: "/orders", role: "owner", kind: "page", paths: cycle(["/orders", "/orders?status=confirmed", "/orders?sort=due&page=3"]) },
   { name: "/orders/:id", role: "owner", kind: "page", paths: cycle(someOrders) },
   { name: "/customers", role: "owner", kind: "page", paths: cycle(["/customers"]) },

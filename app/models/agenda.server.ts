@@ -6,7 +6,7 @@ import { getDb } from "~/db.server";
 import { AGENDA_LINES, BATCH_AHEAD_DAYS, DUE_SOON_DAYS, type AgendaFacts } from "~/lib/agenda";
 import { addDays, todayIso } from "~/lib/dates";
 import { can, type Role } from "~/lib/permissions";
-import { proposalPreviews } from "./batches.server";
+import { unbatchedCounts } from "./batches.server";
 import { listSleds } from "./sleds.server";
 
 const OPEN_ORDER = ["draft", "confirmed", "in_production"] as const;
@@ -33,9 +33,7 @@ async function ordersIn(shopId: string, status: "draft" | "ready") {
 }
 
 async function unbatched(shopId: string, dueBy: string) {
-  // one listed line per material is enough: the counts come with it
-  const previews = await proposalPreviews(shopId, dueBy, 1);
-  return { lines: previews.reduce((a, p) => a + p.lineCount, 0), recuts: previews.reduce((a, p) => a + p.recutCount, 0), dueBy };
+  return { ...(await unbatchedCounts(shopId, dueBy)), dueBy };
 }
 
 /** Batches not yet cut, soonest due first (the model of the batches list keeps its own order). */

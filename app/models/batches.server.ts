@@ -1,4 +1,4 @@
-import { and, asc, desc, eq, inArray, isNull, lte, notExists, sql } from "drizzle-orm";
+import { and, asc, count, desc, eq, inArray, isNull, lte, notExists, sql } from "drizzle-orm";
 import { batches, batchLines, customers, heldLines, kerfMeasurements, materials, offcuts, orderLines, orders, plans, productParts, products, recutParts, saws, shops, sleds } from "../../db/schema";
 import { getDb, type Queryable, type Transaction, type WriteContext } from "~/db.server";
 import type { BatchSource } from "~/lib/batch-parts";
@@ -84,20 +84,31 @@ export type ProposalPreview = { materialId: string; materialName: string; lines:
  * proposalPreview). Counted and cut down in PostgreSQL, so a busy season's thousands of lines are not
  * sent to the app only to be dropped; creating batches still takes every line (proposeBatches).
  */
+/** The unbatched lines of unbatchedLines, in SQL: one row per line and material of its parts. */
+const lineMaterialsDue = (shopId: string, dueBy: string) => sql`
+  select ol.id as line_id, pm.material_id, o.id as order_id, o.number as order_number, o.customer_id,
+         ol.product_id, ol.quantity, o.due_date
+  from ${orderLines} ol
+  join ${orders} o on o.id = ol.order_id
+  join (select distinct product_id, material_id from ${productParts}) pm on pm.product_id = ol.product_id
+  where o.shop_id = ${shopId} and o.status in ('confirmed', 'in_production') and o.due_date <= ${dueBy}
+    and not exists (select 1 from ${batchLines} bl where bl.order_line_id = ol.id and bl.material_id = pm.material_id)
+    and not exists (select 1 from ${heldLines} hl where hl.order_line_id = ol.id and hl.material_id = pm.material_id)`;
+
+/** How many line-and-material rows proposeBatches would take by `dueBy`, and how many spoiled parts wait to be cut again. */
+export async function unbatchedCounts(shopId: string, dueBy: string): Promise<{ lines: number; recuts: number }> {
+  const [[lines], [recuts]] = await Promise.all([
+    getDb().execute<{ n: number }>(sql`select count(*)::int as n from (${lineMaterialsDue(shopId, dueBy)}) lm`),
+    getDb().select({ n: count() }).from(recutParts).where(and(eq(recutParts.shopId, shopId), isNull(recutParts.batchId))),
+  ]);
+  return { lines: Number(lines.n), recuts: recuts.n };
+}
+
 export async function proposalPreviews(shopId: string, dueBy: string, limit = PROPOSAL_PREVIEW_LINES): Promise<ProposalPreview[]> {
   const db = getDb();
   const [rows, recuts] = await Promise.all([
     db.execute<Record<string, unknown>>(sql`
-      with line_materials as (
-        select ol.id as line_id, pm.material_id, o.id as order_id, o.number as order_number, o.customer_id,
-               ol.product_id, ol.quantity, o.due_date
-        from ${orderLines} ol
-        join ${orders} o on o.id = ol.order_id
-        join (select distinct product_id, material_id from ${productParts}) pm on pm.product_id = ol.product_id
-        where o.shop_id = ${shopId} and o.status in ('confirmed', 'in_production') and o.due_date <= ${dueBy}
-          and not exists (select 1 from ${batchLines} bl where bl.order_line_id = ol.id and bl.material_id = pm.material_id)
-          and not exists (select 1 from ${heldLines} hl where hl.order_line_id = ol.id and hl.material_id = pm.material_id)
-      ), ranked as (
+      with line_materials as (${lineMaterialsDue(shopId, dueBy)}), ranked as (
         select lm.*, p.name as product_name,
                row_number() over (partition by lm.material_id order by lm.due_date, lm.order_number, p.name, lm.line_id) as rank,
                count(*) over (partition by lm.material_id) as line_count,

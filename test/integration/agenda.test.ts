@@ -28,11 +28,17 @@ async function seedShop(s: TestShop, customerName: string) {
   await order(3, "confirmed", "2027-01-20", true); // beyond 14 days, and beyond the 21 days of batching
   const ready = await order(4, "ready", "2026-12-03");
   const cancelled = await order(5, "cancelled", "2026-12-04");
-  await db.insert(t.batches).values([
-    { shopId: s.id, number: 7, materialId: birch.id, dueBy: "2026-12-20", status: "open" },
-    { shopId: s.id, number: 6, materialId: birch.id, dueBy: "2026-12-10", status: "released" },
-    { shopId: s.id, number: 5, materialId: birch.id, dueBy: "2026-11-10", status: "cut" },
-  ]);
+  const [, , cut] = await db
+    .insert(t.batches)
+    .values([
+      { shopId: s.id, number: 7, materialId: birch.id, dueBy: "2026-12-20", status: "open" },
+      { shopId: s.id, number: 6, materialId: birch.id, dueBy: "2026-12-10", status: "released" },
+      { shopId: s.id, number: 5, materialId: birch.id, dueBy: "2026-11-10", status: "cut" },
+    ])
+    .returning();
+  // one spoiled part waits to be cut again; one other is in a batch already
+  const recut = { shopId: s.id, materialId: birch.id, spoiledInBatchId: cut.id, partName: "Number card", lengthUm: 210_000, widthUm: 150_000, grainLocked: false, process: "saw" as const, reason: "tear-out" };
+  await db.insert(t.recutParts).values([recut, { ...recut, batchId: cut.id }]);
   const [sled] = await db.insert(t.sleds).values({ shopId: s.id, name: "Big sled", stopMinUm: 20_000, stopMaxUm: 1_200_000, widestUm: 610_000 }).returning();
   await db.insert(t.sledChecks).values({ shopId: s.id, sledId: sled.id, widthFirstEndUm: 25_000, widthSecondEndUm: 25_000, stripLengthUm: 400_000, pivotDistanceUm: 500_000, checkedAt: new Date("2026-08-01T10:00:00Z") });
   const token = () => `tok${Math.random().toString(36).slice(2)}${Math.random().toString(36).slice(2)}`;
@@ -62,8 +68,8 @@ describe("what is waiting on the shop", () => {
     ]);
     expect(facts.drafts).toBe(1);
     expect(facts.ready).toBe(1);
-    // the confirmed line due within 21 days; order 3's line is due later
-    expect(facts.unbatched).toEqual({ lines: 1, recuts: 0, dueBy: "2026-12-23" });
+    // the confirmed line due within 21 days (order 3's is due later), and the spoiled part in no batch
+    expect(facts.unbatched).toEqual({ lines: 1, recuts: 1, dueBy: "2026-12-23" });
     expect(facts.batches?.map((b) => [b.number, b.status])).toEqual([
       [6, "released"],
       [7, "open"],
@@ -102,6 +108,7 @@ describe("what is waiting on the shop", () => {
     expect(text).toContain("1 draft order not confirmed yet");
     expect(text).toContain("1 order ready to hand over");
     expect(text).toContain("1 sled to check for square");
+    expect(text).toContain("1 order line and 1 spoiled part to cut again in no batch yet");
     expect(text).toContain("1 deposit asked and not paid, €15.00 in all");
     expect(text).not.toContain("Someone else's wedding");
     expect(res.text).toContain('href="/orders?status=draft"');
