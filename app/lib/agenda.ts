@@ -86,7 +86,7 @@ export function agendaEntries(facts: AgendaFacts, now: Date): AgendaEntry[] {
         title: `${count(planning.length, "batch", "batches")} to plan or release`,
         href: "/batches",
         urgent: false,
-        lines: [...shown.map((b) => line(b, `/batches/${b.id}`, b.status === "open" ? "no plan chosen" : "planned, not released")), ...more(planning.length, shown.length)],
+        lines: [...shown.map((b) => line(b, `/batches/${b.id}`, b.status === "open" ? "no plan yet" : "planned, not released")), ...more(planning.length, shown.length)],
       });
     }
     if (atSaw.length > 0) {

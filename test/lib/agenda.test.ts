@@ -61,7 +61,7 @@ describe("what is waiting on the shop", () => {
       {
         title: "2 batches to plan or release",
         lines: [
-          { text: "B-0003 Birch plywood 3 mm · no plan chosen", href: "/batches/b3" },
+          { text: "B-0003 Birch plywood 3 mm · no plan yet", href: "/batches/b3" },
           { text: "B-0004 Birch plywood 6 mm · planned, not released", href: "/batches/b4" },
         ],
       },
