@@ -28,6 +28,8 @@ export type AgendaFacts = {
   batches?: AgendaBatch[];
   sleds?: { list: AgendaSled[]; toleranceUmPerM: number };
   unpaidDeposits?: { count: number; amounts: { amountMinor: number; currency: string }[] };
+  /** materials with batches waiting to be cut and not one full sheet on hand */
+  sheetsOut?: { materialName: string; batches: number }[];
 };
 
 export type AgendaLine = { text: string; href?: string; flag?: string };
@@ -99,6 +101,16 @@ export function agendaEntries(facts: AgendaFacts, now: Date): AgendaEntry[] {
         lines: [...shown.map((b) => line(b, `/saw/${b.id}`, "released")), ...more(atSaw.length, shown.length)],
       });
     }
+  }
+
+  if (facts.sheetsOut && facts.sheetsOut.length > 0) {
+    entries.push({
+      key: "sheets-out",
+      title: `${count(facts.sheetsOut.length, "material")} with no full sheet in stock`,
+      href: "/catalogue/materials",
+      urgent: false,
+      lines: facts.sheetsOut.map((m) => ({ text: `${m.materialName} · ${count(m.batches, "batch", "batches")} waiting (racked offcuts may do)` })),
+    });
   }
 
   if (facts.sleds) {

@@ -1,7 +1,7 @@
 // The facts behind the home page's list of what is waiting (lib/agenda.ts): only those the role may
 // read, read side by side.
 import { and, asc, count, eq, inArray, lte, ne, sql } from "drizzle-orm";
-import { batches, customers, deposits, materials, orders, shops } from "../../db/schema";
+import { batches, customers, deposits, materials, orders, shops, stockPanels } from "../../db/schema";
 import { getDb } from "~/db.server";
 import { AGENDA_LINES, BATCH_AHEAD_DAYS, DUE_SOON_DAYS, type AgendaFacts } from "~/lib/agenda";
 import { addDays, todayIso } from "~/lib/dates";
@@ -46,6 +46,21 @@ function unfinishedBatches(shopId: string) {
     .orderBy(asc(batches.dueBy), asc(batches.number));
 }
 
+/** Materials that batches not yet released wait for, with no full sheet on hand. */
+async function sheetsOut(shopId: string) {
+  const onHand = getDb()
+    .select({ n: sql`coalesce(sum(${stockPanels.onHand}), 0)` })
+    .from(stockPanels)
+    .where(eq(stockPanels.materialId, materials.id));
+  return getDb()
+    .select({ materialName: materials.name, batches: sql<number>`count(*)::int` })
+    .from(batches)
+    .innerJoin(materials, eq(materials.id, batches.materialId))
+    .where(and(eq(batches.shopId, shopId), inArray(batches.status, ["open", "planned"]), sql`(${onHand}) = 0`))
+    .groupBy(materials.id, materials.name)
+    .orderBy(asc(materials.name));
+}
+
 async function sledsToCheck(shopId: string) {
   const [list, [shop]] = await Promise.all([listSleds(shopId), getDb().select({ tolerance: shops.sledToleranceUmPerM }).from(shops).where(eq(shops.id, shopId))]);
   return { list: list.map((s) => ({ id: s.id, name: s.name, lastCheck: s.lastCheck })), toleranceUmPerM: shop.tolerance };
@@ -66,7 +81,7 @@ async function unpaidDeposits(shopId: string) {
 export async function shopAgenda(shopId: string, role: Role, now = new Date()): Promise<AgendaFacts> {
   const today = todayIso(now);
   const skip = Promise.resolve(undefined);
-  const [due, drafts, ready, lines, unfinished, sleds, deposit] = await Promise.all([
+  const [due, drafts, ready, lines, unfinished, sleds, deposit, out] = await Promise.all([
     can(role, "orders:read") ? dueSoon(shopId, addDays(today, DUE_SOON_DAYS)) : skip,
     can(role, "orders:write") ? ordersIn(shopId, "draft") : skip,
     can(role, "orders:write") ? ordersIn(shopId, "ready") : skip,
@@ -74,8 +89,9 @@ export async function shopAgenda(shopId: string, role: Role, now = new Date()): 
     can(role, "batches:write") || can(role, "floor:read") ? unfinishedBatches(shopId) : skip,
     can(role, "sleds:write") ? sledsToCheck(shopId) : skip,
     can(role, "deposits:read") ? unpaidDeposits(shopId) : skip,
+    can(role, "batches:write") ? sheetsOut(shopId) : skip,
   ]);
   // a sawyer reads every batch but acts only on those at the saw
   const batchList = unfinished && (can(role, "batches:write") ? unfinished : unfinished.filter((b) => b.status === "released"));
-  return { today, dueSoon: due, drafts, ready, unbatched: lines, batches: batchList, sleds, unpaidDeposits: deposit };
+  return { today, dueSoon: due, drafts, ready, unbatched: lines, batches: batchList, sleds, unpaidDeposits: deposit, sheetsOut: out };
 }

@@ -19,6 +19,13 @@ let shop: TestShop;
 async function seedShop(s: TestShop, customerName: string) {
   const db = getDb();
   const [birch] = await db.insert(t.materials).values({ shopId: s.id, name: "Birch 6 mm", kind: "plywood", thicknessUm: 6000 }).returning();
+  // MDF has sheets on hand and a batch waiting; birch has batches and no sheet (a sold-out size counts as none)
+  const [mdf] = await db.insert(t.materials).values({ shopId: s.id, name: "MDF 6 mm", kind: "mdf", thicknessUm: 6000 }).returning();
+  await db.insert(t.stockPanels).values([
+    { shopId: s.id, materialId: mdf.id, lengthUm: 2_440_000, widthUm: 1_220_000, costMinor: 2480, onHand: 3 },
+    { shopId: s.id, materialId: birch.id, lengthUm: 2_440_000, widthUm: 1_220_000, costMinor: 4600, onHand: 0 },
+  ]);
+  await db.insert(t.batches).values({ shopId: s.id, number: 8, materialId: mdf.id, dueBy: day(20), status: "planned" });
   const [product] = await db.insert(t.products).values({ shopId: s.id, name: "Table number", priceMinor: 450 }).returning();
   await db.insert(t.productParts).values({ productId: product.id, materialId: birch.id, name: "Number card", lengthUm: 210_000, widthUm: 150_000 });
   const [customer] = await db.insert(t.customers).values({ shopId: s.id, name: customerName }).returning();
@@ -76,7 +83,10 @@ describe("what is waiting on the shop", () => {
     expect(facts.batches?.map((b) => [b.number, b.status])).toEqual([
       [6, "released"],
       [7, "open"],
+      [8, "planned"],
     ]);
+    // birch's open batch waits with no full sheet on hand (the released one has its sheets already)
+    expect(facts.sheetsOut).toEqual([{ materialName: "Birch 6 mm", batches: 1 }]);
     expect(facts.sleds?.list.map((s) => s.name)).toEqual(["Big sled"]);
     expect(facts.sleds?.toleranceUmPerM).toBe(150);
     // asked and unpaid, on an order that is not cancelled
@@ -93,12 +103,14 @@ describe("what is waiting on the shop", () => {
 
     const books = await shopAgenda(shop.id, "bookkeeper", now);
     expect(books.dueSoon?.total).toBe(2);
-    expect([books.drafts, books.ready, books.unbatched, books.batches, books.sleds]).toEqual([undefined, undefined, undefined, undefined, undefined]);
+    expect([books.drafts, books.ready, books.unbatched, books.batches, books.sleds, books.sheetsOut]).toEqual([undefined, undefined, undefined, undefined, undefined, undefined]);
     expect(books.unpaidDeposits?.count).toBe(1);
 
     const planner = await shopAgenda(shop.id, "planner", now);
     expect(planner.unbatched?.lines).toBe(1);
-    expect(planner.batches).toHaveLength(2);
+    expect(planner.batches).toHaveLength(3);
+    expect(planner.sheetsOut).toHaveLength(1);
+    expect(sawyer.sheetsOut).toBeUndefined();
     expect([planner.drafts, planner.sleds, planner.unpaidDeposits]).toEqual([undefined, undefined, undefined]);
   });
 
@@ -113,6 +125,7 @@ describe("what is waiting on the shop", () => {
     expect(text).toContain("1 draft order not confirmed yet");
     expect(text).toContain("1 order ready to hand over");
     expect(text).toContain("1 sled to check for square");
+    expect(text).toContain("1 material with no full sheet in stock");
     expect(text).toContain("1 order line and 1 spoiled part to cut again in no batch yet");
     expect(text).toContain("1 deposit asked and not paid, €15.00 in all");
     expect(text).not.toContain("Someone else's wedding");

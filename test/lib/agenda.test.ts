@@ -8,7 +8,7 @@ const daysAgo = (n: number) => new Date(now.getTime() - n * 86_400_000);
 describe("what is waiting on the shop", () => {
   it("says nothing when the facts hold nothing, or the role reads none of them", () => {
     expect(agendaEntries({ today: "2026-12-02" }, now)).toEqual([]);
-    expect(agendaEntries({ today: "2026-12-02", dueSoon: { total: 0, orders: [] }, drafts: 0, ready: 0, unbatched: { lines: 0, recuts: 0, dueBy: "2026-12-23" }, batches: [], sleds: { list: [], toleranceUmPerM: 150 }, unpaidDeposits: { count: 0, amounts: [] } }, now)).toEqual([]);
+    expect(agendaEntries({ today: "2026-12-02", dueSoon: { total: 0, orders: [] }, drafts: 0, ready: 0, unbatched: { lines: 0, recuts: 0, dueBy: "2026-12-23" }, batches: [], sleds: { list: [], toleranceUmPerM: 150 }, unpaidDeposits: { count: 0, amounts: [] }, sheetsOut: [] }, now)).toEqual([]);
   });
 
   it("lists orders due soon, soonest first as given, flags the overdue one and counts what it does not list", () => {
@@ -88,6 +88,12 @@ describe("what is waiting on the shop", () => {
       "Panel sled · out of the shop's tolerance at its last check",
     ]);
     expect(agendaEntries({ today: "2026-12-02", sleds: { ...sleds, list: [sleds.list[0], sleds.list[4]] } }, now)).toEqual([]);
+  });
+
+  it("names the materials that batches wait for with no full sheet in stock, and points at the stock", () => {
+    const [entry] = agendaEntries({ today: "2026-12-02", sheetsOut: [{ materialName: "Birch plywood 3 mm", batches: 1 }, { materialName: "MDF 6 mm", batches: 2 }] }, now);
+    expect(entry).toMatchObject({ title: "2 materials with no full sheet in stock", href: "/catalogue/materials" });
+    expect(entry.lines.map((l) => l.text)).toEqual(["Birch plywood 3 mm · 1 batch waiting (racked offcuts may do)", "MDF 6 mm · 2 batches waiting (racked offcuts may do)"]);
   });
 
   it("sums the deposits asked and not paid, per currency", () => {
