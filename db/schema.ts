@@ -225,6 +225,8 @@ export const orders = pgTable(
     // The confirmation e-mail: when it went out, or why the last try failed (retried without re-confirming).
     confirmationSentAt: timestamp("confirmation_sent_at", { withTimezone: true, mode: "date" }),
     confirmationError: text("confirmation_error"),
+    // The last e-mail telling the customer the order is ready to collect.
+    readyNoticeSentAt: timestamp("ready_notice_sent_at", { withTimezone: true, mode: "date" }),
     createdAt: createdAt(),
   },
   (t) => [

@@ -62,6 +62,20 @@ export function orderConfirmationEmail(input: {
   };
 }
 
+export function orderReadyEmail(input: { shopName: string; customerName: string; orderNumber: number; eventDate: string; balance?: string }) {
+  return {
+    subject: `Your order #${input.orderNumber} with ${input.shopName} is ready`,
+    text: [
+      `Dear ${input.customerName},`,
+      "",
+      `your order #${input.orderNumber} is made and ready to collect, in good time for your event on ${input.eventDate}.`,
+      ...(input.balance ? ["", `Still to pay: ${input.balance}.`] : []),
+      "",
+      "Reply to this e-mail to arrange collection or delivery.",
+    ].join("\n"),
+  };
+}
+
 export function releaseEmail(input: { name: string; code: string; material: string; sheets: number; setups: number; link: string }) {
   return {
     subject: `Batch ${input.code} (${input.material}) is ready for the saw`,

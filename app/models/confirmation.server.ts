@@ -1,9 +1,10 @@
-import { depositRequestEmail, orderConfirmationEmail } from "~/lib/emails";
+import { balanceOf } from "~/lib/deposits";
+import { depositRequestEmail, orderConfirmationEmail, orderReadyEmail } from "~/lib/emails";
 import { formatDate } from "~/lib/dates";
 import { formatMoney } from "~/lib/money";
 import { sendMail } from "~/mail.server";
-import { orderDeposit } from "./deposits.server";
-import { getOrder, recordConfirmation } from "./orders.server";
+import { orderDeposit, orderMoves } from "./deposits.server";
+import { getOrder, recordConfirmation, recordReadyNotice } from "./orders.server";
 import { getShop } from "./shops.server";
 
 /** The customer's payment link of a deposit (`origin` is where the shop's site is reached). */
@@ -60,4 +61,29 @@ export async function sendDepositRequest(shopId: string, orderId: string, origin
       link: depositLink(origin, deposit.linkToken),
     }),
   });
+}
+
+/**
+ * Tells the customer a ready order can be collected, with what is still to pay (the total less any
+ * deposit held), and records when it went. The caller checks the order is ready.
+ */
+export async function sendReadyNotice(shopId: string, orderId: string): Promise<{ sent: true } | { sent: false; error: string }> {
+  const [order, shop, moves] = await Promise.all([getOrder(shopId, orderId), getShop(shopId), orderMoves(shopId, orderId)]);
+  if (!order) return { sent: false, error: "The order is gone." };
+  if (!order.customerEmail) return { sent: false, error: "The customer has no e-mail address; add one to the customer first." };
+  const { balanceMinor } = balanceOf(order.totalMinor, moves);
+  const mail = orderReadyEmail({
+    shopName: shop.name,
+    customerName: order.customerName,
+    orderNumber: order.number,
+    eventDate: formatDate(order.eventDate),
+    balance: balanceMinor > 0 ? formatMoney(balanceMinor, shop.currency) : undefined,
+  });
+  try {
+    await sendMail({ to: order.customerEmail, ...mail });
+  } catch (e) {
+    return { sent: false, error: `The e-mail could not be sent: ${e instanceof Error ? e.message : String(e)}` };
+  }
+  await recordReadyNotice(order.id, new Date());
+  return { sent: true };
 }

@@ -107,6 +107,7 @@ export async function getOrder(shopId: string, orderId: string) {
       confirmedAt: orders.confirmedAt,
       confirmationSentAt: orders.confirmationSentAt,
       confirmationError: orders.confirmationError,
+      readyNoticeSentAt: orders.readyNoticeSentAt,
       customerId: customers.id,
       customerName: customers.name,
       customerEmail: customers.email,
@@ -290,6 +291,10 @@ export async function recordConfirmation(orderId: string, outcome: { sentAt: Dat
     .update(orders)
     .set("sentAt" in outcome ? { confirmationSentAt: outcome.sentAt, confirmationError: null } : { confirmationError: outcome.error })
     .where(eq(orders.id, orderId));
+}
+
+export async function recordReadyNotice(orderId: string, sentAt: Date) {
+  await getDb().update(orders).set({ readyNoticeSentAt: sentAt }).where(eq(orders.id, orderId));
 }
 
 /** A file of one of this shop's orders, for download; null when the ids do not belong together here. */

@@ -28,14 +28,19 @@ export async function loader(args: Route.LoaderArgs) {
 
 const ActionSchema = v.variant("intent", [
   v.object({ intent: v.literal("create"), dueBy: v.pipe(v.string("Enter a date."), v.check(isIsoDate, "Enter the due-by date as a date, like 2026-12-20.")) }),
-  v.object({ intent: v.literal("unhold"), lineId: v.pipe(v.string(), v.uuid("Not a valid line.")), materialId: v.pipe(v.string(), v.uuid("Not a valid material.")) }),
+  v.object({ intent: v.literal("unhold"), lineId: v.pipe(v.string(), v.uuid()), materialId: v.pipe(v.string(), v.uuid()) }),
 ], "Unknown action.");
 
 export async function action(args: Route.ActionArgs) {
   const user = requirePermission(args, "batches:write");
   const form = await args.request.formData();
   const parsed = parseForm(ActionSchema, form);
-  if (!parsed.ok) return data({ errors: parsed.errors }, { status: 400 });
+  if (!parsed.ok) {
+    // A held line's ids come in hidden fields: a bad one is told above the page, as no field shows it.
+    const { dueBy, intent, ...hidden } = parsed.errors;
+    const form = intent ?? (Object.keys(hidden).length > 0 ? "The held line in this form was not recognised. Reload the page and try again." : undefined);
+    return data({ errors: { ...(dueBy ? { dueBy } : {}), ...(form ? { form } : {}) } }, { status: 400 });
+  }
   if (parsed.data.intent === "unhold") {
     if (!(await releaseHold(user.shopId, parsed.data.lineId, parsed.data.materialId))) throw data("No such held line in this shop.", { status: 404 });
     return redirect(`/batches?dueBy=${form.get("dueBy") ?? ""}`);

@@ -16,7 +16,7 @@ import { OrderHeaderSchema } from "~/lib/order-schema";
 import { linesEditable, nextStatuses, ORDER_STATUSES, STATUS_LABELS } from "~/lib/order-status";
 import { can } from "~/lib/permissions";
 import { balanceOf, unchargeableDeposit } from "~/lib/deposits";
-import { depositLink, sendConfirmation, sendDepositRequest } from "~/models/confirmation.server";
+import { depositLink, sendConfirmation, sendDepositRequest, sendReadyNotice } from "~/models/confirmation.server";
 import { DepositError, openDeposit, orderDeposit, orderMoves, proposedDeposit, proposedDepositRefusal, refundDeposit } from "~/models/deposits.server";
 import { publicOrigin } from "~/mail.server";
 import { paymentErrorMessage, paymentsConfigured } from "~/payments.server";
@@ -71,6 +71,7 @@ const ActionSchema = v.variant("intent", [
   v.object({ intent: v.literal("request-deposit") }),
   v.object({ intent: v.literal("refund-deposit") }),
   v.object({ intent: v.literal("resend") }),
+  v.object({ intent: v.literal("ready-notice") }),
   v.object({ intent: v.literal("add-lines") }),
   v.object({ intent: v.literal("remove-line"), lineId: Uuid }),
   v.object({ intent: v.literal("header") }),
@@ -112,6 +113,14 @@ export async function action(args: Route.ActionArgs) {
         if (order.confirmationSentAt) return fail("The confirmation was already sent.");
         await sendConfirmation(user.shopId, orderId, publicOrigin(args.request));
         break;
+      }
+      case "ready-notice": {
+        const order = await getOrder(user.shopId, orderId);
+        if (!order) throw notFound();
+        if (order.status !== "ready") return fail("Only an order marked ready can be announced as ready.");
+        const outcome = await sendReadyNotice(user.shopId, orderId);
+        if (!outcome.sent) return fail(outcome.error);
+        return data({ errors: {} as Record<string, string>, values: fields, intent: input.intent, notice: `${order.customerEmail} was told the order is ready.` });
       }
       case "request-deposit": {
         if (!(await getOrder(user.shopId, orderId))) throw notFound();
@@ -230,6 +239,24 @@ export default function OrderPage({ loaderData, actionData }: Route.ComponentPro
                 </Form>
               )}
             </div>
+          )}
+        </div>
+      )}
+
+      {order.status === "ready" && (
+        <div className="flex flex-wrap items-center justify-between gap-3 rounded-lg border border-line bg-card p-4" data-testid="ready-notice">
+          <p className={order.readyNoticeSentAt ? "text-ok" : "text-muted"}>
+            {order.readyNoticeSentAt
+              ? `The customer was told it is ready: e-mailed to ${order.customerEmail} on ${new Date(order.readyNoticeSentAt).toUTCString()}.`
+              : order.customerEmail
+                ? "The customer has not been told it is ready."
+                : "The customer has no e-mail address to tell them it is ready."}
+          </p>
+          {canWrite && order.customerEmail && (
+            <Form method="post" encType="multipart/form-data">
+              <input type="hidden" name="intent" value="ready-notice" />
+              <SubmitButton pendingText="Sending…">{order.readyNoticeSentAt ? "E-mail it again" : "E-mail the customer it is ready"}</SubmitButton>
+            </Form>
           )}
         </div>
       )}

@@ -115,6 +115,13 @@ describe("proposing and adjusting batches", () => {
     const owner = await signIn(server, s.shop.users.owner);
     const page = await request(server).get("/batches?dueBy=2027-01-15").set("Cookie", owner);
     expect(visible(page.text)).toContain(`#${s.party.number}: 2 × Table number`);
+    // a form without the held line's hidden ids is told so above the page, and releases nothing
+    const blank = await request(server).post("/batches").set("Cookie", owner).type("form").send({ intent: "unhold" });
+    expect(blank.status).toBe(400);
+    expect(blank.text).toMatch(/role="alert"[^>]*>The held line in this form was not recognised\. Reload the page and try again\.</);
+    const unknown = await request(server).post("/batches").set("Cookie", owner).type("form").send({ intent: "shred" });
+    expect(unknown.status).toBe(400);
+    expect(unknown.text).toMatch(/role="alert"[^>]*>Unknown action\.</);
     const released = await request(server).post("/batches").set("Cookie", owner).type("form").send({ intent: "unhold", lineId: line.id, materialId: s.birch6.id });
     expect(released.status).toBe(302);
     expect((await proposeBatches(s.shop.id, "2027-01-15")).flatMap((p) => p.lines.map((l) => l.lineId))).toEqual([line.id]);

@@ -3,7 +3,7 @@ import { readdirSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import request from "supertest";
 import { beforeAll, describe, expect, it } from "vitest";
-import { batches, batchLines, customers, lineFiles, materials, orderLines, orders } from "../../db/schema";
+import { batches, batchLines, customers, depositMoves, deposits, lineFiles, materials, orderLines, orders } from "../../db/schema";
 import { appServer, visible } from "../support/app";
 import { createShop, signIn, type TestShop } from "../support/factories";
 import { createCatalogue } from "../support/order-factories";
@@ -320,6 +320,52 @@ describe("confirming", () => {
     expect(row.status).toBe("delivered");
     const late = await request(server).post(`/orders/${order.id}`).set("Cookie", owner).field("intent", "add-lines").field("line-0-product", catalogue.sign.id).field("line-0-quantity", "1");
     expect(late.status).toBe(409);
+  });
+
+  it("tells the customer a ready order is ready, with what is still to pay after the deposit, and shows when it went", async () => {
+    const order = await draftOrder();
+    const tell = (cookie = owner) => request(server).post(`/orders/${order.id}`).set("Cookie", cookie).field("intent", "ready-notice");
+    await move(order.id, "confirmed");
+    const early = await tell();
+    expect(early.status).toBe(409);
+    expect(early.text).toContain("Only an order marked ready can be announced as ready.");
+    for (const to of ["in_production", "ready"]) await move(order.id, to);
+    // €60.00 of the €202.00 paid as a deposit
+    const [deposit] = await getDb().insert(deposits).values({ shopId: shop.id, orderId: order.id, amountMinor: 6000, currency: "EUR", linkToken: `ready-${order.id}`, status: "paid" }).returning();
+    await getDb().insert(depositMoves).values({ shopId: shop.id, depositId: deposit.id, kind: "payment", amountMinor: 6000, currency: "EUR", providerRef: `pi_ready_${order.id}`, occurredAt: new Date() });
+    const before = await request(server).get(`/orders/${order.id}`).set("Cookie", owner);
+    expect(visible(before.text)).toContain("The customer has not been told it is ready.");
+    expect(visible(before.text)).toContain("E-mail the customer it is ready");
+
+    const bookkeeper = await signIn(server, shop.users.bookkeeper);
+    expect((await tell(bookkeeper)).status).toBe(403);
+    const seen = mailTo(catalogue.customer.email).length;
+    const told = await tell();
+    expect(told.status).toBe(200);
+    expect(visible(told.text)).toContain(`${catalogue.customer.email} was told the order is ready.`);
+    const mail = await waitForMail(catalogue.customer.email, seen);
+    expect(mail.subject).toBe(`Your order #${order.number} with ${shop.name} is ready`);
+    expect(mail.text).toContain("in good time for your event on Sat, 16 Jan 2027");
+    expect(mail.text).toContain("Still to pay: €142.00."); // €202.00 less the €60.00 deposit
+    const [row] = await getDb().select().from(orders).where(eq(orders.id, order.id));
+    expect(row.readyNoticeSentAt).not.toBeNull();
+    const after = await request(server).get(`/orders/${order.id}`).set("Cookie", owner);
+    expect(visible(after.text)).toContain(`The customer was told it is ready: e-mailed to ${catalogue.customer.email}`);
+    expect(visible(after.text)).toContain("E-mail it again");
+  });
+
+  it("cannot tell a customer without an e-mail address that the order is ready, and says so", async () => {
+    const [noEmail] = await getDb().insert(customers).values({ shopId: shop.id, name: "Walk-in, no e-mail", email: "" }).returning();
+    const order = await draftOrder(noEmail.id);
+    for (const to of ["confirmed", "in_production", "ready"]) await move(order.id, to);
+    const page = await request(server).get(`/orders/${order.id}`).set("Cookie", owner);
+    expect(visible(page.text)).toContain("The customer has no e-mail address to tell them it is ready.");
+    expect(visible(page.text)).not.toContain("E-mail the customer it is ready");
+    const refused = await request(server).post(`/orders/${order.id}`).set("Cookie", owner).field("intent", "ready-notice");
+    expect(refused.status).toBe(409);
+    expect(refused.text).toContain("The customer has no e-mail address; add one to the customer first.");
+    const [row] = await getDb().select().from(orders).where(eq(orders.id, order.id));
+    expect(row.readyNoticeSentAt).toBeNull();
   });
 
   it("a sawyer cannot edit orders; a bookkeeper reads them but cannot confirm", async () => {

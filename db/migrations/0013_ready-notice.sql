@@ -1,0 +1,1 @@
+ALTER TABLE "orders" ADD COLUMN "ready_notice_sent_at" timestamp with time zone;
