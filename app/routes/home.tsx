@@ -30,13 +30,9 @@ export default function Home({ loaderData }: Route.ComponentProps) {
       <header className="max-w-3xl space-y-3">
         <p className="text-sm font-medium uppercase tracking-wider text-edge">Hello, {loaderData.name}</p>
         <h1 className="text-display font-semibold">From the order to the offcut</h1>
-        <p className="text-lg text-muted">
-          Stopwise carries a personalised order through the shop: it batches what is due by material, lays the parts
-          onto sheets and racked offcuts with the saw's kerf allowed for, gives the saw a set-up for every identical
-          part, and shows what each batch cost.
-        </p>
       </header>
 
+      {/* The day's work first; what Stopwise does comes after, for a newcomer. */}
       <section aria-labelledby="waiting" className="space-y-3">
         <h2 id="waiting" className="text-xl font-semibold">
           Waiting on the shop
@@ -44,22 +40,30 @@ export default function Home({ loaderData }: Route.ComponentProps) {
         <AgendaList entries={loaderData.agenda} />
       </section>
 
-      <ol className="grid gap-3 sm:grid-cols-2 lg:grid-cols-5">
-        {FLOW.map((item, i) => (
-          <li key={item.step}>
-            {/* A step outside this role's areas is shown, not linked: the whole flow stays in view. */}
-            {areas.some((a) => a.path === item.path) ? (
-              <Link to={item.path} className="block h-full rounded-lg border border-line bg-card p-4 hover:border-edge">
-                <FlowStep index={i} step={item.step} detail={item.detail} />
-              </Link>
-            ) : (
-              <div className="block h-full rounded-lg border border-dashed border-line p-4 opacity-80">
-                <FlowStep index={i} step={item.step} detail={item.detail} />
-              </div>
-            )}
-          </li>
-        ))}
-      </ol>
+      <section className="space-y-4" aria-label="How Stopwise works">
+        <p className="max-w-3xl text-lg text-muted">
+          Stopwise carries a personalised order through the shop: it batches what is due by material, lays the parts
+          onto sheets and racked offcuts with the saw's kerf allowed for, gives the saw a set-up for every identical
+          part, and shows what each batch cost.
+        </p>
+
+        <ol className="grid gap-3 sm:grid-cols-2 lg:grid-cols-5">
+          {FLOW.map((item, i) => (
+            <li key={item.step}>
+              {/* A step outside this role's areas is shown, not linked: the whole flow stays in view. */}
+              {areas.some((a) => a.path === item.path) ? (
+                <Link to={item.path} className="block h-full rounded-lg border border-line bg-card p-4 hover:border-edge">
+                  <FlowStep index={i} step={item.step} detail={item.detail} />
+                </Link>
+              ) : (
+                <div className="block h-full rounded-lg border border-dashed border-line p-4 opacity-80">
+                  <FlowStep index={i} step={item.step} detail={item.detail} />
+                </div>
+              )}
+            </li>
+          ))}
+        </ol>
+      </section>
 
       <section className="space-y-3">
         <h2 className="text-xl font-semibold">Areas</h2>

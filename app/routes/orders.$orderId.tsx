@@ -255,7 +255,14 @@ export default function OrderPage({ loaderData, actionData }: Route.ComponentPro
           {canWrite && order.customerEmail && (
             <Form method="post" encType="multipart/form-data">
               <input type="hidden" name="intent" value="ready-notice" />
-              <SubmitButton pendingText="Sending…">{order.readyNoticeSentAt ? "E-mail it again" : "E-mail the customer it is ready"}</SubmitButton>
+              {order.readyNoticeSentAt ? (
+                // sent already: a quiet button, like the deposit's "E-mail the link again"
+                <button type="submit" className="min-h-11 rounded-md border border-line bg-white px-4 font-medium hover:border-edge">
+                  E-mail it again
+                </button>
+              ) : (
+                <SubmitButton pendingText="Sending…">E-mail the customer it is ready</SubmitButton>
+              )}
             </Form>
           )}
         </div>
