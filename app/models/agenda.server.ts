@@ -1,12 +1,13 @@
 // The facts behind the home page's list of what is waiting (lib/agenda.ts): only those the role may
 // read, read side by side.
 import { and, asc, count, eq, inArray, lte, ne, sql } from "drizzle-orm";
-import { batches, customers, deposits, materials, orders, shops, stockPanels } from "../../db/schema";
+import { batches, customers, deposits, materials, orders, stockPanels } from "../../db/schema";
 import { getDb } from "~/db.server";
 import { AGENDA_LINES, BATCH_AHEAD_DAYS, DUE_SOON_DAYS, type AgendaFacts } from "~/lib/agenda";
 import { addDays, todayIso } from "~/lib/dates";
 import { can, type Role } from "~/lib/permissions";
 import { unbatchedCounts } from "./batches.server";
+import { getShop } from "./shops.server";
 import { listSleds } from "./sleds.server";
 
 const OPEN_ORDER = ["draft", "confirmed", "in_production"] as const;
@@ -62,8 +63,8 @@ async function sheetsOut(shopId: string) {
 }
 
 async function sledsToCheck(shopId: string) {
-  const [list, [shop]] = await Promise.all([listSleds(shopId), getDb().select({ tolerance: shops.sledToleranceUmPerM }).from(shops).where(eq(shops.id, shopId))]);
-  return { list: list.map((s) => ({ id: s.id, name: s.name, lastCheck: s.lastCheck })), toleranceUmPerM: shop.tolerance };
+  const [list, shop] = await Promise.all([listSleds(shopId), getShop(shopId)]);
+  return { list: list.map((s) => ({ id: s.id, name: s.name, lastCheck: s.lastCheck })), toleranceUmPerM: shop.sledToleranceUmPerM };
 }
 
 /** Deposits asked and not paid on orders still open, summed per currency (a shop may have changed its currency since). */

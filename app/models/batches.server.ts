@@ -39,13 +39,16 @@ function unbatchedLines(db: Queryable, shopId: string, dueBy: string) {
     .orderBy(asc(materials.name), asc(orders.dueDate), asc(orders.number), asc(products.name));
 }
 
+/** A spoiled part no batch cuts again yet. */
+const recutWaiting = (shopId: string) => and(eq(recutParts.shopId, shopId), isNull(recutParts.batchId));
+
 /** Spoiled parts waiting to be cut again, whatever their due date: they are late already. */
 function openRecuts(db: Queryable, shopId: string) {
   return db
     .select({ id: recutParts.id, materialId: recutParts.materialId, materialName: materials.name, partName: recutParts.partName, reason: recutParts.reason, origin: recutParts.origin })
     .from(recutParts)
     .innerJoin(materials, eq(materials.id, recutParts.materialId))
-    .where(and(eq(recutParts.shopId, shopId), isNull(recutParts.batchId)))
+    .where(recutWaiting(shopId))
     .orderBy(asc(recutParts.createdAt));
 }
 
@@ -78,12 +81,6 @@ type Line = ProposedBatch["lines"][number];
 type Recut = ProposedBatch["recuts"][number];
 export type ProposalPreview = { materialId: string; materialName: string; lines: Line[]; recuts: Recut[]; lineCount: number; itemCount: number; recutCount: number; notListed: number };
 
-/**
- * What the batches page shows of the proposals: per material the counts of every unbatched line due
- * by `dueBy` and only its first `limit` lines (the same order and rows as proposeBatches, then
- * proposalPreview). Counted and cut down in PostgreSQL, so a busy season's thousands of lines are not
- * sent to the app only to be dropped; creating batches still takes every line (proposeBatches).
- */
 /** The unbatched lines of unbatchedLines, in SQL: one row per line and material of its parts. */
 const lineMaterialsDue = (shopId: string, dueBy: string) => sql`
   select ol.id as line_id, pm.material_id, o.id as order_id, o.number as order_number, o.customer_id,
@@ -99,11 +96,17 @@ const lineMaterialsDue = (shopId: string, dueBy: string) => sql`
 export async function unbatchedCounts(shopId: string, dueBy: string): Promise<{ lines: number; recuts: number }> {
   const [[lines], [recuts]] = await Promise.all([
     getDb().execute<{ n: number }>(sql`select count(*)::int as n from (${lineMaterialsDue(shopId, dueBy)}) lm`),
-    getDb().select({ n: count() }).from(recutParts).where(and(eq(recutParts.shopId, shopId), isNull(recutParts.batchId))),
+    getDb().select({ n: count() }).from(recutParts).where(recutWaiting(shopId)),
   ]);
   return { lines: Number(lines.n), recuts: recuts.n };
 }
 
+/**
+ * What the batches page shows of the proposals: per material the counts of every unbatched line due
+ * by `dueBy` and only its first `limit` lines (the same order and rows as proposeBatches, then
+ * proposalPreview). Counted and cut down in PostgreSQL, so a busy season's thousands of lines are not
+ * sent to the app only to be dropped; creating batches still takes every line (proposeBatches).
+ */
 export async function proposalPreviews(shopId: string, dueBy: string, limit = PROPOSAL_PREVIEW_LINES): Promise<ProposalPreview[]> {
   const db = getDb();
   const [rows, recuts] = await Promise.all([

@@ -4,7 +4,7 @@ import { formatDate } from "~/lib/dates";
 import { formatMoney } from "~/lib/money";
 import { sendMail } from "~/mail.server";
 import { orderDeposit, orderMoves } from "./deposits.server";
-import { getOrder, recordConfirmation, recordReadyNotice } from "./orders.server";
+import { getOrder, recordConfirmation, recordReadyNotice, type OrderDetail } from "./orders.server";
 import { getShop } from "./shops.server";
 
 /** The customer's payment link of a deposit (`origin` is where the shop's site is reached). */
@@ -65,11 +65,10 @@ export async function sendDepositRequest(shopId: string, orderId: string, origin
 
 /**
  * Tells the customer a ready order can be collected, with what is still to pay (the total less any
- * deposit held), and records when it went. The caller checks the order is ready.
+ * deposit held), and records when it went. The caller has read the order and checked it is ready.
  */
-export async function sendReadyNotice(shopId: string, orderId: string): Promise<{ sent: true } | { sent: false; error: string }> {
-  const [order, shop, moves] = await Promise.all([getOrder(shopId, orderId), getShop(shopId), orderMoves(shopId, orderId)]);
-  if (!order) return { sent: false, error: "The order is gone." };
+export async function sendReadyNotice(shopId: string, order: OrderDetail): Promise<{ sent: true } | { sent: false; error: string }> {
+  const [shop, moves] = await Promise.all([getShop(shopId), orderMoves(shopId, order.id)]);
   if (!order.customerEmail) return { sent: false, error: "The customer has no e-mail address; add one to the customer first." };
   const { balanceMinor } = balanceOf(order.totalMinor, moves);
   const mail = orderReadyEmail({

@@ -118,7 +118,7 @@ export async function action(args: Route.ActionArgs) {
         const order = await getOrder(user.shopId, orderId);
         if (!order) throw notFound();
         if (order.status !== "ready") return fail("Only an order marked ready can be announced as ready.");
-        const outcome = await sendReadyNotice(user.shopId, orderId);
+        const outcome = await sendReadyNotice(user.shopId, order);
         if (!outcome.sent) return fail(outcome.error);
         return data({ errors: {} as Record<string, string>, values: fields, intent: input.intent, notice: `${order.customerEmail} was told the order is ready.` });
       }
