@@ -255,6 +255,28 @@ export const orderLines = pgTable(
   (t) => [index("order_lines_order_idx").on(t.orderId)],
 );
 
+// What happened to an order, oldest first: who did it (null: Stopwise itself, or a member since
+// removed) and the particulars its wording needs, kept as they were at the time (names, e-mails).
+export const orderEventKindEnum = pgEnum("order_event_kind", ["created", "header", "line_added", "line_removed", "texts", "status", "confirmation_sent", "confirmation_failed", "ready_notice"]);
+export const orderEvents = pgTable(
+  "order_events",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    shopId: uuid("shop_id")
+      .notNull()
+      .references(() => shops.id, { onDelete: "cascade" }),
+    orderId: uuid("order_id")
+      .notNull()
+      .references(() => orders.id, { onDelete: "cascade" }),
+    kind: orderEventKindEnum("kind").notNull(),
+    detail: jsonb("detail").$type<Record<string, unknown>>().notNull().default({}),
+    actorId: text("actor_id").references(() => users.id, { onDelete: "set null" }),
+    // the clock at the insert, not the transaction's start, so entries of one transaction keep their order
+    at: timestamp("at", { withTimezone: true, mode: "date" }).notNull().default(sql`clock_timestamp()`),
+  },
+  (t) => [index("order_events_order_idx").on(t.orderId, t.at)],
+);
+
 // Single-use tokens (invitations, password resets): only the SHA-256 of the token is stored.
 export const invitations = pgTable(
   "invitations",

@@ -8,6 +8,7 @@ import { engineOnThisThread, runPlan } from "../app/jobs/plan-runner.server";
 import { batchContents, createBatches } from "../app/models/batches.server";
 import { closeBatchAsCut, expectedOffcuts, tickSetup } from "../app/models/floor.server";
 import { moveOrder } from "../app/models/orders.server";
+import { logOrderEvent } from "../app/models/order-history.server";
 import { addPlan, releasePlan, type PlanResult } from "../app/models/plans.server";
 import { getShop } from "../app/models/shops.server";
 import { hashPassword } from "../app/password.server";
@@ -64,9 +65,10 @@ export async function seedDemo(db: Database, today = new Date()): Promise<void> 
       .values({ name: "Tallowmere Sign & Keepsake", currency: "GBP", displayUnit: "mm", depositRule: "percent", depositPercent: 30 })
       .returning();
 
-    await tx.insert(t.users).values(
-      DEMO_ACCOUNTS.map((account) => ({ id: generateIdFromEntropySize(10), shopId: shop.id, passwordHash, ...account })),
-    );
+    const [owner] = await tx
+      .insert(t.users)
+      .values(DEMO_ACCOUNTS.map((account) => ({ id: generateIdFromEntropySize(10), shopId: shop.id, passwordHash, ...account })))
+      .returning();
 
     const [birch3, birch6, mdf6] = await tx
       .insert(t.materials)
@@ -151,6 +153,18 @@ export async function seedDemo(db: Database, today = new Date()): Promise<void> 
       { orderId: cafe.id, productId: menuBoard.id, quantity: 4, unitPriceMinor: menuBoard.priceMinor, personalisation: ["Breakfast", "Lunch", "Coffee", "Cakes"] },
     ]);
 
+    // Their histories: taken over the last few days, the two confirmed this morning.
+    const hoursAgo = (h: number) => new Date(today.getTime() - h * 3_600_000);
+    const by = (at: Date) => ({ by: owner.id, at });
+    await logOrderEvent(tx, shop.id, wedding.id, { kind: "created", lines: 3 }, by(hoursAgo(75)));
+    await logOrderEvent(tx, shop.id, wedding.id, { kind: "texts", product: placeCard.name, count: 120 }, by(hoursAgo(50)));
+    await logOrderEvent(tx, shop.id, nursery.id, { kind: "created", lines: 2 }, by(hoursAgo(28)));
+    await logOrderEvent(tx, shop.id, cafe.id, { kind: "created", lines: 1 }, by(hoursAgo(26)));
+    for (const [order, email] of [[wedding, "celia.ardent@example.com"], [nursery, penhaligon.email]] as const) {
+      await logOrderEvent(tx, shop.id, order.id, { kind: "status", from: "draft", to: "confirmed" }, by(hoursAgo(3)));
+      if (email) await logOrderEvent(tx, shop.id, order.id, { kind: "confirmation_sent", to: email }, by(hoursAgo(3)));
+    }
+
     // Deposits at 30 %: the wedding paid its £125.40 (of £418.00) on the payment link; the nursery's is asked.
     await demoDeposit(tx, { shopId: shop.id, orderId: wedding.id, amountMinor: 12_540, tag: "wedding", requestedAt: today, paidAt: today });
     await demoDeposit(tx, { shopId: shop.id, orderId: nursery.id, amountMinor: 2_220, tag: "nursery", requestedAt: today, paidAt: null });
@@ -205,6 +219,12 @@ export async function seedDemoHistory(db: Database, today = new Date()): Promise
 
     const people = await tx.select().from(t.users).where(eq(t.users.shopId, shop.id));
     const sawyer = people.find((u) => u.role === "sawyer")!;
+    const owner = people.find((u) => u.role === "owner")!;
+    for (const [order, customer, lines, confirmed] of [[christening, hartwell, 1, lastMonth(2)], [shopSigns, quince, 1, lastMonth(3)]] as const) {
+      await logOrderEvent(tx, shop.id, order.id, { kind: "created", lines }, { by: owner.id, at: new Date(confirmed.getTime() - 86_400_000) });
+      await logOrderEvent(tx, shop.id, order.id, { kind: "status", from: "draft", to: "confirmed" }, { by: owner.id, at: confirmed });
+      await logOrderEvent(tx, shop.id, order.id, { kind: "confirmation_sent", to: customer.email! }, { by: owner.id, at: confirmed });
+    }
     const [saw] = await tx.select().from(t.saws).where(eq(t.saws.shopId, shop.id));
     const [sled] = await tx.select().from(t.sleds).where(eq(t.sleds.shopId, shop.id));
     const settings = await getShop(shop.id, tx);
@@ -226,7 +246,7 @@ export async function seedDemoHistory(db: Database, today = new Date()): Promise
       if (plan.status !== "done" || plan.error) throw new Error(`The history plan of order #${cut.order.number} did not come out whole: ${plan.error ?? plan.status}`);
 
       await releasePlan(shop.id, batchId, planId, at(cut.batchedAt, 30));
-      await moveOrder(shop.id, cut.order.id, "in_production", { db: tx });
+      await moveOrder(shop.id, cut.order.id, "in_production", { ...at(cut.batchedAt, 31), by: owner.id });
       // At the saw on the day: one set-up ticked every five minutes, each with its full count, then the offcuts racked as planned.
       const { setups } = (plan.result as PlanResult).plan;
       for (const [i, setup] of setups.entries()) {
@@ -235,7 +255,8 @@ export async function seedDemoHistory(db: Database, today = new Date()): Promise
       const made = (await expectedOffcuts(batchId, tx)).filter((o) => o.status === "expected");
       const decisions = made.map((o, i) => ({ offcutId: o.id, rack: true, lengthUm: o.lengthUm, widthUm: o.widthUm, location: cut.rack(i) }));
       await closeBatchAsCut(shop.id, batchId, decisions, setups.length, at(cut.cutAt, 0));
-      for (const status of ["ready", "delivered"] as const) await moveOrder(shop.id, cut.order.id, status, { db: tx });
+      await moveOrder(shop.id, cut.order.id, "ready", { ...at(cut.cutAt, 60), by: owner.id });
+      await moveOrder(shop.id, cut.order.id, "delivered", { ...at(cut.cutAt, 24 * 60 * 2), by: owner.id });
     }
   });
 }

@@ -42,6 +42,13 @@ export function formatDay(isoTimestamp: string): string {
   return DAY.format(new Date(isoTimestamp));
 }
 
+const MOMENT = new Intl.DateTimeFormat("en-GB", { day: "numeric", month: "short", year: "numeric", hour: "2-digit", minute: "2-digit", hourCycle: "h23", timeZone: "UTC" });
+
+/** "2 Dec 2026, 14:05 UTC": an instant to the minute, for histories. */
+export function formatMoment(isoTimestamp: string): string {
+  return `${MOMENT.format(new Date(isoTimestamp))} UTC`;
+}
+
 /** Default due date: the longest lead time of the ordered products before the event (14 days when none says). */
 export function defaultDueDate(eventDate: string, leadTimesDays: (number | null)[]): string {
   const known = leadTimesDays.filter((d): d is number => d !== null);

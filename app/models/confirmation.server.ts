@@ -4,6 +4,7 @@ import { formatDate } from "~/lib/dates";
 import { formatMoney } from "~/lib/money";
 import { sendMail } from "~/mail.server";
 import { orderDeposit, orderMoves } from "./deposits.server";
+import type { EventContext } from "./order-history.server";
 import { getOrder, recordConfirmation, recordReadyNotice, type OrderDetail } from "./orders.server";
 import { getShop } from "./shops.server";
 
@@ -16,12 +17,12 @@ export function depositLink(origin: string, linkToken: string): string {
  * Sends the confirmation e-mail and records the outcome; a failure is kept on the order to show and
  * retry. A deposit asked and not yet paid puts its payment link in the e-mail.
  */
-export async function sendConfirmation(shopId: string, orderId: string, origin: string): Promise<{ sent: true } | { sent: false; error: string }> {
+export async function sendConfirmation(shopId: string, orderId: string, origin: string, who: EventContext = {}): Promise<{ sent: true } | { sent: false; error: string }> {
   const [order, shop, deposit] = await Promise.all([getOrder(shopId, orderId), getShop(shopId), orderDeposit(shopId, orderId)]);
   if (!order) return { sent: false, error: "The order is gone." };
   if (!order.customerEmail) {
     const error = "The customer has no e-mail address; add one to the customer and send again.";
-    await recordConfirmation(order.id, { error });
+    await recordConfirmation(shopId, order.id, { error }, who);
     return { sent: false, error };
   }
   const mail = orderConfirmationEmail({
@@ -36,11 +37,11 @@ export async function sendConfirmation(shopId: string, orderId: string, origin: 
   });
   try {
     await sendMail({ to: order.customerEmail, ...mail });
-    await recordConfirmation(order.id, { sentAt: new Date() });
+    await recordConfirmation(shopId, order.id, { sentAt: new Date(), to: order.customerEmail }, who);
     return { sent: true };
   } catch (e) {
     const error = `The e-mail could not be sent: ${e instanceof Error ? e.message : String(e)}`;
-    await recordConfirmation(order.id, { error });
+    await recordConfirmation(shopId, order.id, { error }, who);
     return { sent: false, error };
   }
 }
@@ -67,7 +68,7 @@ export async function sendDepositRequest(shopId: string, orderId: string, origin
  * Tells the customer a ready order can be collected, with what is still to pay (the total less any
  * deposit held), and records when it went. The caller has read the order and checked it is ready.
  */
-export async function sendReadyNotice(shopId: string, order: OrderDetail): Promise<{ sent: true } | { sent: false; error: string }> {
+export async function sendReadyNotice(shopId: string, order: OrderDetail, who: EventContext = {}): Promise<{ sent: true } | { sent: false; error: string }> {
   const [shop, moves] = await Promise.all([getShop(shopId), orderMoves(shopId, order.id)]);
   if (!order.customerEmail) return { sent: false, error: "The customer has no e-mail address; add one to the customer first." };
   const { balanceMinor } = balanceOf(order.totalMinor, moves);
@@ -83,6 +84,6 @@ export async function sendReadyNotice(shopId: string, order: OrderDetail): Promi
   } catch (e) {
     return { sent: false, error: `The e-mail could not be sent: ${e instanceof Error ? e.message : String(e)}` };
   }
-  await recordReadyNotice(order.id, new Date());
+  await recordReadyNotice(shopId, order.id, { at: new Date(), to: order.customerEmail }, who);
   return { sent: true };
 }

@@ -4,8 +4,10 @@ import { getDb, type WriteContext } from "~/db.server";
 import { batchCode } from "~/lib/batches";
 import { DEPOSIT_FILTERS, type DepositStatus } from "~/lib/deposits";
 import { likePattern, parseListQuery, type ListQuery } from "~/lib/listing";
+import { headerChanges } from "~/lib/order-history";
 import { checkLineTexts } from "~/lib/order-lines";
 import { canMoveTo, linesEditable, ORDER_STATUSES, type OrderStatus } from "~/lib/order-status";
+import { logOrderEvent, type EventContext } from "./order-history.server";
 
 export const ORDER_SORTS = ["number", "customer", "event", "due", "status", "total"] as const;
 export type OrderSort = (typeof ORDER_SORTS)[number];
@@ -160,7 +162,7 @@ export type OrderHeader = { customerId: string; eventDate: string; dueDate: stri
  * Writes an order and all its lines and file records in one transaction; the shop row is locked so
  * two orders made at once get consecutive numbers. Prices are the products' current prices.
  */
-export async function createOrder(shopId: string, header: OrderHeader, lines: NewLine[]): Promise<{ id: string; number: number }> {
+export async function createOrder(shopId: string, header: OrderHeader, lines: NewLine[], who: EventContext = {}): Promise<{ id: string; number: number }> {
   return getDb().transaction(async (tx) => {
     await tx.select({ id: shops.id }).from(shops).where(eq(shops.id, shopId)).for("update");
     const [customer] = await tx.select({ id: customers.id }).from(customers).where(and(eq(customers.id, header.customerId), eq(customers.shopId, shopId)));
@@ -168,31 +170,36 @@ export async function createOrder(shopId: string, header: OrderHeader, lines: Ne
     const [{ next }] = await tx.select({ next: sql<number>`coalesce(max(${orders.number}), 1000) + 1` }).from(orders).where(eq(orders.shopId, shopId));
     const [order] = await tx.insert(orders).values({ shopId, number: next, ...header }).returning({ id: orders.id, number: orders.number });
     await insertLines(tx, shopId, order.id, lines);
+    await logOrderEvent(tx, shopId, order.id, { kind: "created", lines: lines.length }, who);
     return order;
   });
 }
 
 type Tx = Parameters<Parameters<ReturnType<typeof getDb>["transaction"]>[0]>[0];
 
-async function insertLines(tx: Tx, shopId: string, orderId: string, lines: NewLine[]) {
-  if (lines.length === 0) return;
+/** Inserts the lines at their products' prices; returns each line's product name and quantity, for the history. */
+async function insertLines(tx: Tx, shopId: string, orderId: string, lines: NewLine[]): Promise<{ product: string; quantity: number }[]> {
+  if (lines.length === 0) return [];
   const ids = [...new Set(lines.map((l) => l.productId))];
   // Locked against a delete at the same moment; a product retired since the form was checked is refused.
   const prices = await tx
-    .select({ id: products.id, priceMinor: products.priceMinor })
+    .select({ id: products.id, name: products.name, priceMinor: products.priceMinor })
     .from(products)
     .where(and(eq(products.shopId, shopId), inArray(products.id, ids), isNull(products.retiredAt)))
     .for("share");
-  const priceOf = new Map(prices.map((p) => [p.id, p.priceMinor]));
+  const productOf = new Map(prices.map((p) => [p.id, p]));
+  const added: { product: string; quantity: number }[] = [];
   for (const line of lines) {
-    const price = priceOf.get(line.productId);
+    const price = productOf.get(line.productId)?.priceMinor;
     if (price === undefined) throw new OrderStateError("A product on this order is not (or no longer) offered in this shop's catalogue.");
     const [row] = await tx
       .insert(orderLines)
       .values({ orderId, productId: line.productId, quantity: line.quantity, unitPriceMinor: price, personalisation: line.personalisation, notes: line.notes })
       .returning({ id: orderLines.id });
     if (line.files.length) await tx.insert(lineFiles).values(line.files.map((f) => ({ ...f, shopId, orderLineId: row.id })));
+    added.push({ product: productOf.get(line.productId)!.name, quantity: line.quantity });
   }
+  return added;
 }
 
 async function lockOrder(tx: Tx, shopId: string, orderId: string) {
@@ -201,25 +208,28 @@ async function lockOrder(tx: Tx, shopId: string, orderId: string) {
 }
 
 /** Adds lines to an order whose lines may still change; false when the order is not this shop's. */
-export async function addLines(shopId: string, orderId: string, lines: NewLine[]): Promise<boolean> {
+export async function addLines(shopId: string, orderId: string, lines: NewLine[], who: EventContext = {}): Promise<boolean> {
   return getDb().transaction(async (tx) => {
     const order = await lockOrder(tx, shopId, orderId);
     if (!order) return false;
     if (!linesEditable(order.status)) throw new OrderStateError("This order is in production; its lines can no longer change.");
-    await insertLines(tx, shopId, order.id, lines);
+    for (const line of await insertLines(tx, shopId, order.id, lines)) await logOrderEvent(tx, shopId, order.id, { kind: "line_added", ...line }, who);
     return true;
   });
 }
 
 /** Removes a line (and returns its stored file keys so the caller can delete the bytes). Null: not found. */
-export async function removeLine(shopId: string, orderId: string, lineId: string): Promise<string[] | null> {
+export async function removeLine(shopId: string, orderId: string, lineId: string, who: EventContext = {}): Promise<string[] | null> {
   return getDb().transaction(async (tx) => {
     const order = await lockOrder(tx, shopId, orderId);
     if (!order) return null;
     if (!linesEditable(order.status)) throw new OrderStateError("This order is in production; its lines can no longer change.");
     const files = await tx.select({ key: lineFiles.storageKey }).from(lineFiles).where(and(eq(lineFiles.orderLineId, lineId), eq(lineFiles.shopId, shopId)));
-    const removed = await tx.delete(orderLines).where(and(eq(orderLines.id, lineId), eq(orderLines.orderId, order.id))).returning({ id: orderLines.id });
-    return removed.length ? files.map((f) => f.key) : null;
+    const [removed] = await tx.delete(orderLines).where(and(eq(orderLines.id, lineId), eq(orderLines.orderId, order.id))).returning({ productId: orderLines.productId, quantity: orderLines.quantity });
+    if (!removed) return null;
+    const [product] = await tx.select({ name: products.name }).from(products).where(eq(products.id, removed.productId));
+    await logOrderEvent(tx, shopId, order.id, { kind: "line_removed", product: product.name, quantity: removed.quantity }, who);
+    return files.map((f) => f.key);
   });
 }
 
@@ -228,16 +238,17 @@ export async function removeLine(shopId: string, orderId: string, lineId: string
  * such line on this shop's order. Refused once the line's batch has gone to the saw: its labels and
  * laser files may already be printed.
  */
-export async function updateLineTexts(shopId: string, orderId: string, lineId: string, typed: string): Promise<{ ok: true } | { ok: false; error: string } | null> {
+export async function updateLineTexts(shopId: string, orderId: string, lineId: string, typed: string, who: EventContext = {}): Promise<{ ok: true } | { ok: false; error: string } | null> {
   return getDb().transaction(async (tx) => {
     const order = await lockOrder(tx, shopId, orderId);
     if (!order) return null;
     if (!linesEditable(order.status)) throw new OrderStateError("This order is in production; its lines can no longer change.");
     const [line] = await tx
-      .select({ id: orderLines.id, quantity: orderLines.quantity })
+      .select({ id: orderLines.id, quantity: orderLines.quantity, personalisation: orderLines.personalisation, product: products.name })
       .from(orderLines)
+      .innerJoin(products, eq(products.id, orderLines.productId))
       .where(and(eq(orderLines.id, lineId), eq(orderLines.orderId, order.id)))
-      .for("update");
+      .for("update", { of: orderLines });
     if (!line) return null;
     const texts = checkLineTexts(typed, line.quantity);
     if (!texts.ok) return texts;
@@ -248,19 +259,29 @@ export async function updateLineTexts(shopId: string, orderId: string, lineId: s
       .where(and(eq(batchLines.orderLineId, line.id), inArray(batches.status, ["released", "cut", "closed"])))
       .limit(1);
     if (atSaw) throw new OrderStateError(`This line is in batch ${batchCode(atSaw.number)}, which has gone to the saw; its texts no longer change.`);
+    // Saving the same texts again changes nothing, and tells no history.
+    if (texts.texts.join("\n") === line.personalisation.join("\n")) return { ok: true };
     await tx.update(orderLines).set({ personalisation: texts.texts }).where(eq(orderLines.id, line.id));
+    await logOrderEvent(tx, shopId, order.id, { kind: "texts", product: line.product, count: texts.texts.length }, who);
     return { ok: true };
   });
 }
 
-export async function updateHeader(shopId: string, orderId: string, header: OrderHeader): Promise<boolean> {
+export async function updateHeader(shopId: string, orderId: string, header: OrderHeader, who: EventContext = {}): Promise<boolean> {
   return getDb().transaction(async (tx) => {
     const order = await lockOrder(tx, shopId, orderId);
     if (!order) return false;
     if (order.status === "delivered" || order.status === "cancelled") throw new OrderStateError(`A ${order.status} order no longer changes.`);
-    const [customer] = await tx.select({ id: customers.id }).from(customers).where(and(eq(customers.id, header.customerId), eq(customers.shopId, shopId)));
+    const [customer] = await tx.select({ id: customers.id, name: customers.name }).from(customers).where(and(eq(customers.id, header.customerId), eq(customers.shopId, shopId)));
     if (!customer) throw new OrderStateError("That customer is not in this shop.");
+    const [before] = await tx
+      .select({ customer: customers.name, eventDate: orders.eventDate, dueDate: orders.dueDate, notes: orders.notes })
+      .from(orders)
+      .innerJoin(customers, eq(customers.id, orders.customerId))
+      .where(eq(orders.id, order.id));
     await tx.update(orders).set(header).where(eq(orders.id, order.id));
+    const changes = headerChanges(before, { customer: customer.name, eventDate: header.eventDate, dueDate: header.dueDate, notes: header.notes });
+    if (changes.length) await logOrderEvent(tx, shopId, order.id, { kind: "header", changes }, who);
     return true;
   });
 }
@@ -269,7 +290,7 @@ export async function updateHeader(shopId: string, orderId: string, header: Orde
  * Moves an order on. Confirming happens once: a second "confirm" (a double click, a retry) finds the
  * order already confirmed and changes nothing. Returns the status before, or null when not found.
  */
-export async function moveOrder(shopId: string, orderId: string, to: OrderStatus, { db = getDb(), now = new Date() }: WriteContext = {}): Promise<OrderStatus | null> {
+export async function moveOrder(shopId: string, orderId: string, to: OrderStatus, { db = getDb(), now = new Date(), by }: WriteContext & Pick<EventContext, "by"> = {}): Promise<OrderStatus | null> {
   return db.transaction(async (tx) => {
     const order = await lockOrder(tx, shopId, orderId);
     if (!order) return null;
@@ -282,19 +303,28 @@ export async function moveOrder(shopId: string, orderId: string, to: OrderStatus
       .update(orders)
       .set({ status: to, ...(to === "confirmed" ? { confirmedAt: now, confirmationSentAt: null, confirmationError: null } : {}) })
       .where(eq(orders.id, order.id));
+    await logOrderEvent(tx, shopId, order.id, { kind: "status", from: order.status, to }, { by, at: now });
     return order.status;
   });
 }
 
-export async function recordConfirmation(orderId: string, outcome: { sentAt: Date } | { error: string }) {
-  await getDb()
-    .update(orders)
-    .set("sentAt" in outcome ? { confirmationSentAt: outcome.sentAt, confirmationError: null } : { confirmationError: outcome.error })
-    .where(eq(orders.id, orderId));
+/** Keeps the confirmation e-mail's outcome on the order, and in its history. */
+export async function recordConfirmation(shopId: string, orderId: string, outcome: { sentAt: Date; to: string } | { error: string }, who: EventContext = {}) {
+  await getDb().transaction(async (tx) => {
+    await tx
+      .update(orders)
+      .set("sentAt" in outcome ? { confirmationSentAt: outcome.sentAt, confirmationError: null } : { confirmationError: outcome.error })
+      .where(and(eq(orders.id, orderId), eq(orders.shopId, shopId)));
+    const event = "sentAt" in outcome ? ({ kind: "confirmation_sent", to: outcome.to } as const) : ({ kind: "confirmation_failed", error: outcome.error } as const);
+    await logOrderEvent(tx, shopId, orderId, event, who);
+  });
 }
 
-export async function recordReadyNotice(orderId: string, sentAt: Date) {
-  await getDb().update(orders).set({ readyNoticeSentAt: sentAt }).where(eq(orders.id, orderId));
+export async function recordReadyNotice(shopId: string, orderId: string, sent: { at: Date; to: string }, who: EventContext = {}) {
+  await getDb().transaction(async (tx) => {
+    await tx.update(orders).set({ readyNoticeSentAt: sent.at }).where(and(eq(orders.id, orderId), eq(orders.shopId, shopId)));
+    await logOrderEvent(tx, shopId, orderId, { kind: "ready_notice", to: sent.to }, { ...who, at: sent.at });
+  });
 }
 
 /** A file of one of this shop's orders, for download; null when the ids do not belong together here. */

@@ -8,7 +8,7 @@ import { Field, FormAlert, SubmitButton } from "~/components/forms";
 import { OrderLineFields } from "~/components/order-line-fields";
 import { PageHeader } from "~/components/page-header";
 import { StatusBadge } from "~/components/status-badge";
-import { formatDate } from "~/lib/dates";
+import { formatDate, formatMoment } from "~/lib/dates";
 import { parseForm } from "~/lib/forms";
 import { formatMoney } from "~/lib/money";
 import { checkLines, rawLinesFrom } from "~/lib/order-lines";
@@ -24,6 +24,7 @@ import { chooseCustomer, searchCustomers } from "~/models/customers.server";
 import { readOrderForm, withStoredArtwork } from "~/models/order-input.server";
 import { addLines, getOrder, moveOrder, OrderStateError, productChoices, removeLine, updateHeader, updateLineTexts } from "~/models/orders.server";
 import { orderMaterialCost } from "~/models/ledger.server";
+import { orderHistory } from "~/models/order-history.server";
 import { getShop } from "~/models/shops.server";
 import { deleteStoredFiles } from "~/storage.server";
 import { timed } from "~/timing.server";
@@ -36,7 +37,7 @@ export async function loader(args: Route.LoaderArgs) {
   if (!order) throw data("No such order in this shop.", { status: 404 });
   const canWrite = can(user.role, "orders:write");
   const seesDeposits = can(user.role, "deposits:read");
-  const [shop, products, customers, materialCost, deposit, moves, proposed] = await timed("queries", () =>
+  const [shop, products, customers, materialCost, deposit, moves, proposed, history] = await timed("queries", () =>
     Promise.all([
       getShop(user.shopId),
       canWrite ? productChoices(user.shopId) : [],
@@ -45,6 +46,7 @@ export async function loader(args: Route.LoaderArgs) {
       seesDeposits ? orderDeposit(user.shopId, order.id) : null,
       seesDeposits ? orderMoves(user.shopId, order.id) : [],
       canWrite && paymentsConfigured() ? proposedDeposit(user.shopId, order.id) : null,
+      orderHistory(user.shopId, order.id),
     ]),
   );
   const depositView = seesDeposits
@@ -63,7 +65,7 @@ export async function loader(args: Route.LoaderArgs) {
       }
     : null;
   // The customer picker gets the first few by name; typing asks /api/customers for the rest.
-  return { order, currency: shop.currency, canWrite, products, customers, materialCost, deposits: depositView };
+  return { order, currency: shop.currency, canWrite, products, customers, materialCost, deposits: depositView, history };
 }
 
 const ActionSchema = v.variant("intent", [
@@ -97,12 +99,12 @@ export async function action(args: Route.ActionArgs) {
           const unchargeable = await proposedDepositRefusal(user.shopId, orderId);
           if (unchargeable) return fail(`${unchargeable} The order was not confirmed: untick the deposit to confirm it without one.`);
         }
-        const before = await moveOrder(user.shopId, orderId, input.to);
+        const before = await moveOrder(user.shopId, orderId, input.to, { by: user.id });
         if (before === null) throw notFound();
         if (input.to === "confirmed") {
           // The deposit is asked before the e-mail goes, so its link is in it.
           if (input.deposit === "yes" && paymentsConfigured()) await openDeposit(user.shopId, orderId);
-          await sendConfirmation(user.shopId, orderId, publicOrigin(args.request));
+          await sendConfirmation(user.shopId, orderId, publicOrigin(args.request), { by: user.id });
         }
         break;
       }
@@ -111,14 +113,14 @@ export async function action(args: Route.ActionArgs) {
         if (!order) throw notFound();
         if (order.status === "draft" || order.status === "cancelled") return fail("Only a confirmed order has a confirmation to send.");
         if (order.confirmationSentAt) return fail("The confirmation was already sent.");
-        await sendConfirmation(user.shopId, orderId, publicOrigin(args.request));
+        await sendConfirmation(user.shopId, orderId, publicOrigin(args.request), { by: user.id });
         break;
       }
       case "ready-notice": {
         const order = await getOrder(user.shopId, orderId);
         if (!order) throw notFound();
         if (order.status !== "ready") return fail("Only an order marked ready can be announced as ready.");
-        const outcome = await sendReadyNotice(user.shopId, order);
+        const outcome = await sendReadyNotice(user.shopId, order, { by: user.id });
         if (!outcome.sent) return fail(outcome.error);
         return data({ errors: {} as Record<string, string>, values: fields, intent: input.intent, notice: `${order.customerEmail} was told the order is ready.` });
       }
@@ -150,18 +152,18 @@ export async function action(args: Route.ActionArgs) {
         const lines = checkLines(rawLinesFrom(entries), new Set(products.map((p) => p.id)));
         if (!lines.ok) return data({ errors: lines.errors, values: fields, intent: input.intent }, { status: 400 });
         if (lines.lines.length === 0) return data({ errors: { "line-0-product": "Choose a product." } as Record<string, string>, values: fields, intent: input.intent }, { status: 400 });
-        const found = await withStoredArtwork(lines.lines, (newLines) => addLines(user.shopId, orderId, newLines));
+        const found = await withStoredArtwork(lines.lines, (newLines) => addLines(user.shopId, orderId, newLines, { by: user.id }));
         if (!found) throw notFound();
         break;
       }
       case "remove-line": {
-        const keys = await removeLine(user.shopId, orderId, input.lineId);
+        const keys = await removeLine(user.shopId, orderId, input.lineId, { by: user.id });
         if (keys === null) throw notFound();
         await deleteStoredFiles(keys);
         break;
       }
       case "line-texts": {
-        const saved = await updateLineTexts(user.shopId, orderId, input.lineId, input.texts);
+        const saved = await updateLineTexts(user.shopId, orderId, input.lineId, input.texts, { by: user.id });
         if (saved === null) throw notFound();
         const field = `texts-${input.lineId}`;
         if (!saved.ok) return data({ errors: { [field]: saved.error } as Record<string, string>, values: fields, intent: field }, { status: 400 });
@@ -176,7 +178,7 @@ export async function action(args: Route.ActionArgs) {
         }
         const current = await getOrder(user.shopId, orderId);
         if (!current) throw notFound();
-        const found = await updateHeader(user.shopId, orderId, { ...header.data, dueDate: header.data.dueDate || current.dueDate });
+        const found = await updateHeader(user.shopId, orderId, { ...header.data, dueDate: header.data.dueDate || current.dueDate }, { by: user.id });
         if (!found) throw notFound();
         break;
       }
@@ -197,7 +199,7 @@ const MOVE_LABELS: Partial<Record<string, string>> = {
 };
 
 export default function OrderPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { order, currency, canWrite, products, customers, materialCost, deposits } = loaderData;
+  const { order, currency, canWrite, products, customers, materialCost, deposits, history } = loaderData;
   const depositRefusal = deposits?.proposedMinor ? unchargeableDeposit(deposits.proposedMinor, currency) : null;
   const errors: Record<string, string> = actionData?.errors ?? {};
   // The customers a refused header form matched: its picker suggests them.
@@ -383,12 +385,40 @@ export default function OrderPage({ loaderData, actionData }: Route.ComponentPro
         </details>
       )}
 
+      <OrderHistory entries={history} />
+
       <p>
         <Link to="/orders" className="text-edge underline">
           ← All orders
         </Link>
       </p>
     </div>
+  );
+}
+
+/** What was done to the order, newest first: who did it and when (UTC, as the other times here). */
+function OrderHistory({ entries }: { entries: { id: string; at: string; actor: string | null; text: string }[] }) {
+  if (entries.length === 0) return null;
+  return (
+    <details className="rounded-lg border border-line bg-card p-4" data-testid="order-history">
+      <summary className="cursor-pointer font-semibold">History ({entries.length})</summary>
+      <ol className="mt-3 space-y-2">
+        {entries
+          .slice()
+          .reverse()
+          .map((e) => (
+            <li key={e.id} className="grid gap-x-4 text-sm sm:grid-cols-[11rem_1fr]">
+              <time dateTime={e.at} className="tabular-nums text-muted">
+                {formatMoment(e.at)}
+              </time>
+              <span>
+                {e.text}
+                {e.actor && <span className="text-muted"> · {e.actor}</span>}
+              </span>
+            </li>
+          ))}
+      </ol>
+    </details>
   );
 }
 

@@ -43,7 +43,7 @@ export async function action(args: Route.ActionArgs) {
   const leadTimes = lines.lines.map((l) => products.find((p) => p.id === l.productId)?.leadTimeDays ?? null);
   const dueDate = header.data.dueDate || defaultDueDate(header.data.eventDate, leadTimes);
   try {
-    const order = await withStoredArtwork(lines.lines, (newLines) => createOrder(user.shopId, { ...header.data, dueDate }, newLines));
+    const order = await withStoredArtwork(lines.lines, (newLines) => createOrder(user.shopId, { ...header.data, dueDate }, newLines, { by: user.id }));
     return redirect(`/orders/${order.id}`);
   } catch (error) {
     if (error instanceof OrderStateError) return data({ errors: { form: error.message } as Record<string, string>, values: fields, suggestions }, { status: 400 });

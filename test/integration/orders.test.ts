@@ -3,13 +3,14 @@ import { readdirSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import request from "supertest";
 import { beforeAll, describe, expect, it } from "vitest";
-import { batches, batchLines, customers, depositMoves, deposits, lineFiles, materials, orderLines, orders } from "../../db/schema";
+import { batches, batchLines, customers, depositMoves, deposits, lineFiles, materials, orderEvents, orderLines, orders, users } from "../../db/schema";
 import { appServer, visible } from "../support/app";
 import { createShop, signIn, type TestShop } from "../support/factories";
 import { createCatalogue } from "../support/order-factories";
 import { mailTo, waitForMail } from "../support/outbox";
 import { getDb } from "~/db.server";
-import { createOrder } from "~/models/orders.server";
+import { orderHistory } from "~/models/order-history.server";
+import { createOrder, moveOrder } from "~/models/orders.server";
 
 const server = await appServer();
 const fixture = (name: string) => readFileSync(new URL(`../fixtures/${name}`, import.meta.url));
@@ -457,5 +458,79 @@ describe("the order list", () => {
     const html = await request(server).get("/orders?sort=number&dir=asc").set("Cookie", cookie);
     expect(visible(html.text)).toContain("#1001<");
     expect(html.text).toContain("1–25 of 30");
+  });
+});
+
+describe("an order's history", () => {
+  it("tells who did what to the order, newest first, and nothing of a refused or empty change", async () => {
+    const made = await newOrder()
+      .field("customerId", catalogue.customer.id)
+      .field("eventDate", "2027-04-17")
+      .field("dueDate", "2027-04-03")
+      .field("line-0-product", catalogue.tableNumber.id)
+      .field("line-0-quantity", "2")
+      .field("line-0-texts", "Tabel 1\nTable 2");
+    expect(made.status).toBe(302);
+    const orderId = made.headers.location.split("/").pop()!;
+    const post = (fields: Record<string, string>) => {
+      let req = request(server).post(`/orders/${orderId}`).set("Cookie", owner);
+      for (const [k, v] of Object.entries(fields)) req = req.field(k, v);
+      return req;
+    };
+    const events = async () => (await getDb().select().from(orderEvents).where(eq(orderEvents.orderId, orderId))).length;
+    const header = { intent: "header", customerId: catalogue.customer.id, eventDate: "2027-04-24", dueDate: "2027-04-03", notes: "Gold leaf on table 1" };
+    expect((await post(header)).status).toBe(302);
+    expect((await post(header)).status).toBe(302); // saved again unchanged: no entry
+    expect((await post({ intent: "add-lines", "line-0-product": catalogue.sign.id, "line-0-quantity": "1" })).status).toBe(302);
+    const lines = await getDb().select().from(orderLines).where(eq(orderLines.orderId, orderId));
+    const numbers = lines.find((l) => l.productId === catalogue.tableNumber.id)!;
+    const sign = lines.find((l) => l.productId === catalogue.sign.id)!;
+    const before = await events();
+    expect((await post({ intent: "line-texts", lineId: numbers.id, texts: "Table 1" })).status).toBe(400); // wrong count: refused, untold
+    expect((await post({ intent: "move", to: "ready" })).status).toBe(409); // a jump: refused, untold
+    expect(await events()).toBe(before);
+    expect((await post({ intent: "line-texts", lineId: numbers.id, texts: "Table 1\nTable 2" })).status).toBe(302);
+    expect((await post({ intent: "line-texts", lineId: numbers.id, texts: "Table 1\nTable 2" })).status).toBe(302); // the same texts: no entry
+    expect((await post({ intent: "remove-line", lineId: sign.id })).status).toBe(302);
+    const seen = mailTo(catalogue.customer.email).length;
+    expect((await post({ intent: "move", to: "confirmed" })).status).toBe(302);
+    await waitForMail(catalogue.customer.email, seen);
+
+    const ownerName = `owner ${shop.name.split(" ").pop()}`;
+    const expected = [
+      `The confirmation was e-mailed to ${catalogue.customer.email} · ${ownerName}`,
+      `Confirmed the order · ${ownerName}`,
+      `Removed 1 × ${catalogue.sign.name} · ${ownerName}`,
+      `Corrected the texts of ${catalogue.tableNumber.name} (2 texts) · ${ownerName}`,
+      `Added 1 × ${catalogue.sign.name} · ${ownerName}`,
+      `Changed the event date from Sat, 17 Apr 2027 to Sat, 24 Apr 2027; the notes from none to “Gold leaf on table 1” · ${ownerName}`,
+      `Took the order, with 1 line · ${ownerName}`,
+    ];
+    expect(await events()).toBe(expected.length);
+    // The bookkeeper reads it too: newest first, each entry once.
+    const html = (await request(server).get(`/orders/${orderId}`).set("Cookie", await signIn(server, shop.users.bookkeeper))).text;
+    const page = visible(html).replace(/<[^>]+>/g, ""); // the words as read
+    expect(page).toContain(`History (${expected.length})`);
+    const at = expected.map((line) => page.indexOf(line));
+    expect(at.every((i) => i >= 0), `missing: ${expected.filter((_, k) => at[k] < 0).join(" | ")}`).toBe(true);
+    expect(at).toEqual([...at].sort((a, b) => a - b));
+    expect(page).toMatch(/\d{1,2} \w{3} \d{4}, \d{2}:\d{2} UTC/);
+  });
+
+  it("a member who leaves the shop leaves the entries, without a name", async () => {
+    const order = await createOrder(shop.id, { customerId: catalogue.customer.id, eventDate: "2027-05-01", dueDate: "2027-04-20", notes: "" }, [
+      { productId: catalogue.sign.id, quantity: 1, personalisation: [], notes: "", files: [] },
+    ]);
+    const [gone] = await getDb().insert(users).values({ id: `gone-${order.id.slice(0, 8)}`, shopId: shop.id, email: `gone-${order.id.slice(0, 8)}@example.com`, name: "Former Planner", role: "owner", passwordHash: "x" }).returning();
+    await moveOrder(shop.id, order.id, "confirmed", { by: gone.id });
+    expect(await orderHistory(shop.id, order.id)).toEqual([expect.objectContaining({ text: "Took the order, with 1 line", actor: null }), expect.objectContaining({ text: "Confirmed the order", actor: "Former Planner" })]);
+    await getDb().delete(users).where(eq(users.id, gone.id));
+    expect((await orderHistory(shop.id, order.id)).map((e) => [e.text, e.actor])).toEqual([
+      ["Took the order, with 1 line", null],
+      ["Confirmed the order", null],
+    ]);
+    // Another shop reads none of it.
+    const other = await createShop("Other history");
+    expect(await orderHistory(other.id, order.id)).toEqual([]);
   });
 });
