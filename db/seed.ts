@@ -153,7 +153,7 @@ export async function seedDemo(db: Database, today = new Date()): Promise<void> 
       { orderId: cafe.id, productId: menuBoard.id, quantity: 4, unitPriceMinor: menuBoard.priceMinor, personalisation: ["Breakfast", "Lunch", "Coffee", "Cakes"] },
     ]);
 
-    // Their histories: taken over the last few days, the two confirmed this morning.
+    // Their histories: taken over the last few days, the two confirmed just now (as confirmedAt says).
     const hoursAgo = (h: number) => new Date(today.getTime() - h * 3_600_000);
     const by = (at: Date) => ({ by: owner.id, at });
     await logOrderEvent(tx, shop.id, wedding.id, { kind: "created", lines: 3 }, by(hoursAgo(75)));
@@ -161,8 +161,8 @@ export async function seedDemo(db: Database, today = new Date()): Promise<void> 
     await logOrderEvent(tx, shop.id, nursery.id, { kind: "created", lines: 2 }, by(hoursAgo(28)));
     await logOrderEvent(tx, shop.id, cafe.id, { kind: "created", lines: 1 }, by(hoursAgo(26)));
     for (const [order, email] of [[wedding, "celia.ardent@example.com"], [nursery, penhaligon.email]] as const) {
-      await logOrderEvent(tx, shop.id, order.id, { kind: "status", from: "draft", to: "confirmed" }, by(hoursAgo(3)));
-      if (email) await logOrderEvent(tx, shop.id, order.id, { kind: "confirmation_sent", to: email }, by(hoursAgo(3)));
+      await logOrderEvent(tx, shop.id, order.id, { kind: "status", from: "draft", to: "confirmed" }, by(today));
+      if (email) await logOrderEvent(tx, shop.id, order.id, { kind: "confirmation_sent", to: email }, by(today));
     }
 
     // Deposits at 30 %: the wedding paid its £125.40 (of £418.00) on the payment link; the nursery's is asked.

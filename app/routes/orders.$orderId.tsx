@@ -9,6 +9,7 @@ import { OrderLineFields } from "~/components/order-line-fields";
 import { PageHeader } from "~/components/page-header";
 import { StatusBadge } from "~/components/status-badge";
 import { formatDate, formatMoment } from "~/lib/dates";
+import type { ProgressItem } from "~/lib/line-progress";
 import { parseForm } from "~/lib/forms";
 import { formatMoney } from "~/lib/money";
 import { checkLines, rawLinesFrom } from "~/lib/order-lines";
@@ -25,6 +26,7 @@ import { readOrderForm, withStoredArtwork } from "~/models/order-input.server";
 import { addLines, getOrder, moveOrder, OrderStateError, productChoices, removeLine, updateHeader, updateLineTexts } from "~/models/orders.server";
 import { orderMaterialCost } from "~/models/ledger.server";
 import { orderHistory } from "~/models/order-history.server";
+import { orderProgress } from "~/models/order-progress.server";
 import { getShop } from "~/models/shops.server";
 import { deleteStoredFiles } from "~/storage.server";
 import { timed } from "~/timing.server";
@@ -37,7 +39,7 @@ export async function loader(args: Route.LoaderArgs) {
   if (!order) throw data("No such order in this shop.", { status: 404 });
   const canWrite = can(user.role, "orders:write");
   const seesDeposits = can(user.role, "deposits:read");
-  const [shop, products, customers, materialCost, deposit, moves, proposed, history] = await timed("queries", () =>
+  const [shop, products, customers, materialCost, deposit, moves, proposed, history, progress] = await timed("queries", () =>
     Promise.all([
       getShop(user.shopId),
       canWrite ? productChoices(user.shopId) : [],
@@ -47,6 +49,7 @@ export async function loader(args: Route.LoaderArgs) {
       seesDeposits ? orderMoves(user.shopId, order.id) : [],
       canWrite && paymentsConfigured() ? proposedDeposit(user.shopId, order.id) : null,
       orderHistory(user.shopId, order.id),
+      orderProgress(user.shopId, order),
     ]),
   );
   const depositView = seesDeposits
@@ -65,7 +68,7 @@ export async function loader(args: Route.LoaderArgs) {
       }
     : null;
   // The customer picker gets the first few by name; typing asks /api/customers for the rest.
-  return { order, currency: shop.currency, canWrite, products, customers, materialCost, deposits: depositView, history };
+  return { order, currency: shop.currency, canWrite, products, customers, materialCost, deposits: depositView, history, progress };
 }
 
 const ActionSchema = v.variant("intent", [
@@ -199,7 +202,7 @@ const MOVE_LABELS: Partial<Record<string, string>> = {
 };
 
 export default function OrderPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { order, currency, canWrite, products, customers, materialCost, deposits, history } = loaderData;
+  const { order, currency, canWrite, products, customers, materialCost, deposits, history, progress } = loaderData;
   const depositRefusal = deposits?.proposedMinor ? unchargeableDeposit(deposits.proposedMinor, currency) : null;
   const errors: Record<string, string> = actionData?.errors ?? {};
   // The customers a refused header form matched: its picker suggests them.
@@ -313,6 +316,7 @@ export default function OrderPage({ loaderData, actionData }: Route.ComponentPro
                   {formatMoney(line.unitPriceMinor, currency)} each · <span className="font-semibold text-ink">{formatMoney(line.quantity * line.unitPriceMinor, currency)}</span>
                 </p>
               </div>
+              <LineProgress items={progress[line.id] ?? []} />
               {line.personalisation.length > 0 && (
                 <details>
                   <summary className="cursor-pointer text-sm font-medium">
@@ -393,6 +397,29 @@ export default function OrderPage({ loaderData, actionData }: Route.ComponentPro
         </Link>
       </p>
     </div>
+  );
+}
+
+const PROGRESS_DOTS = { wait: "bg-line", work: "bg-warn", done: "bg-ok" } as const;
+
+/** Where the line's parts are: a batch per material, and parts spoiled and waiting to be cut again. */
+function LineProgress({ items }: { items: ProgressItem[] }) {
+  if (items.length === 0) return null;
+  return (
+    <ul className="space-y-1 text-sm" aria-label="Where it is in the shop">
+      {items.map((item, i) => (
+        <li key={i} className="flex items-baseline gap-2">
+          <span aria-hidden className={`inline-block size-2.5 shrink-0 rounded-full ${PROGRESS_DOTS[item.tone]}`} />
+          {item.batch ? (
+            <Link to={`/batches/${item.batch.id}`} className="underline decoration-line underline-offset-2 hover:decoration-edge">
+              {item.text}
+            </Link>
+          ) : (
+            <span>{item.text}</span>
+          )}
+        </li>
+      ))}
+    </ul>
   );
 }
 

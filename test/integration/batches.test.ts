@@ -4,7 +4,7 @@ import request from "supertest";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import * as t from "../../db/schema";
 import { appServer, visible } from "../support/app";
-import { batchScenario as scenario } from "../support/batch-factories";
+import { batchScenario as scenario, cutBatch } from "../support/batch-factories";
 import { createShop, signIn } from "../support/factories";
 import { waitForMail } from "../support/outbox";
 import { getDb } from "~/db.server";
@@ -15,6 +15,7 @@ import { formatMoney } from "~/lib/money";
 import { BATCH_LINES_SHOWN, proposalPreview } from "~/lib/batches";
 import { PlanStateError, releasePlan, requestPlan } from "~/models/plans.server";
 import { createOrder } from "~/models/orders.server";
+import { spoilPart } from "~/models/floor.server";
 
 const server = await appServer();
 const db = getDb();
@@ -525,5 +526,41 @@ describe("plan cards", () => {
     expect(halfView).toContain("Panel 1 of 1: stock panel 1220 × 1220 mm");
     expect(halfView).toContain("1 sheet 1220 × 1220 mm · yield"); // a half-sheet never reads as a full one
     expect(halfView + offcutView).not.toMatch(/full sheet/i);
+  });
+});
+
+describe("the order page tells where each line is", () => {
+  it("from no batch, held back or gathered, to cut, and a spoiled part until it is cut again", async () => {
+    const s = await scenario();
+    const owner = await signIn(server, s.shop.users.owner);
+    const lines = await db.select({ id: t.orderLines.id, productId: t.orderLines.productId }).from(t.orderLines).where(eq(t.orderLines.orderId, s.wedding.id));
+    const [numbers, , cards] = ["Table number", "Welcome sign", "Place card"].map(async (name) => {
+      const [p] = await db.select().from(t.products).where(and(eq(t.products.shopId, s.shop.id), eq(t.products.name, name)));
+      return lines.find((l) => l.productId === p.id)!;
+    });
+    const page = async () => visible((await request(server).get(`/orders/${s.wedding.id}`).set("Cookie", owner)).text).replace(/<[^>]+>/g, "");
+    expect(await page()).toContain("Birch plywood 6 mm: in no batch yet");
+
+    const [cardBatch] = await createBatches(s.shop.id, "2027-01-12", [s.birch3.id]);
+    const [cardNumber] = (await db.select({ number: t.batches.number }).from(t.batches).where(eq(t.batches.id, cardBatch))).map((b) => `B-${String(b.number).padStart(4, "0")}`);
+    expect(await page()).toContain(`Birch plywood 3 mm: in ${cardNumber}, not planned yet`);
+    await holdLines(s.shop.id, cardBatch, [(await cards).id]);
+    expect(await page()).toContain("Birch plywood 3 mm: held back from batches by the planner");
+
+    const cut = await cutBatch(s, "2027-01-12");
+    const [row] = await db.select().from(t.batches).where(eq(t.batches.id, cut));
+    const code = `B-${String(row.number).padStart(4, "0")}`;
+    const day = new Intl.DateTimeFormat("en-GB", { day: "numeric", month: "short", year: "numeric", timeZone: "UTC" }).format(row.cutAt!);
+    expect(await page()).toContain(`Birch plywood 6 mm: cut in ${code} on ${day}`);
+    expect((await request(server).get(`/orders/${s.wedding.id}`).set("Cookie", owner)).text).toContain(`href="/batches/${cut}"`);
+
+    // A card spoiled at the saw comes back for the next batch; the order says so until then.
+    await db.update(t.batches).set({ status: "released" }).where(eq(t.batches.id, cut));
+    const origin = { orderId: s.wedding.id, orderNumber: s.wedding.number, customerName: "Ardent–Vasquez wedding", lineId: (await numbers).id, productName: "Table number", partName: "Number card", itemIndex: 1, text: "Table 2" };
+    expect(await spoilPart(s.shop.id, s.shop.users.sawyer.id, cut, { partName: "Number card", lengthUm: mm(210), widthUm: mm(150), grainLocked: true, process: "saw" }, [origin], "chipped edge")).toBe(true);
+    expect(await page()).toContain(`Number card spoiled in ${code}: waiting to be cut again`);
+    // Another shop's reader never sees this order at all.
+    const other = await createShop("Other progress");
+    expect((await request(server).get(`/orders/${s.wedding.id}`).set("Cookie", await signIn(server, other.users.owner))).status).toBe(404);
   });
 });
