@@ -1,6 +1,7 @@
 // An order's history: what was done to it, in words a shop reads back when a customer asks
 // "did you change the date?" or "when did the e-mail go?". Pure: the rows come from order_events.
 import { formatDate } from "./dates";
+import { formatMoney } from "./money";
 import { STATUS_LABELS, type OrderStatus } from "./order-status";
 
 export type HeaderField = "customer" | "eventDate" | "dueDate" | "notes";
@@ -10,8 +11,8 @@ export interface HeaderChange {
   to: string;
 }
 
-/** One thing done to an order, with the particulars as they were then (names, e-mail addresses). */
-export type OrderEvent =
+/** One thing done to an order, as stored, with the particulars as they were then (names, e-mail addresses). */
+export type StoredOrderEvent =
   | { kind: "created"; lines: number }
   | { kind: "header"; changes: HeaderChange[] }
   | { kind: "line_added"; product: string; quantity: number }
@@ -22,7 +23,11 @@ export type OrderEvent =
   | { kind: "confirmation_failed"; error: string }
   | { kind: "ready_notice"; to: string };
 
-export type OrderEventKind = OrderEvent["kind"];
+/** Told from the deposit's own records, not stored as history (see orderHistory). */
+export type DepositEvent = { kind: "deposit_asked" | "deposit_paid" | "deposit_refunded"; amountMinor: number; currency: string };
+
+export type OrderEvent = StoredOrderEvent | DepositEvent;
+export type StoredKind = StoredOrderEvent["kind"];
 
 /** The header as the history compares it: the customer by name, dates as ISO days. */
 export interface HeaderValues {
@@ -39,7 +44,7 @@ export function headerChanges(before: HeaderValues, after: HeaderValues): Header
 }
 
 /** The kind and particulars of a stored event; the particulars are stored without the kind. */
-export function splitEvent(event: OrderEvent): { kind: OrderEventKind; detail: Record<string, unknown> } {
+export function splitEvent(event: StoredOrderEvent): { kind: StoredKind; detail: Record<string, unknown> } {
   const { kind, ...detail } = event;
   return { kind, detail };
 }
@@ -85,16 +90,22 @@ export function describeOrderEvent(event: OrderEvent): string {
       return `The confirmation e-mail did not go: ${event.error}`;
     case "ready_notice":
       return `The customer was e-mailed that it is ready, at ${event.to}`;
+    case "deposit_asked":
+      return `Asked a deposit of ${formatMoney(event.amountMinor, event.currency)}`;
+    case "deposit_paid":
+      return `The customer paid ${formatMoney(event.amountMinor, event.currency)} of the deposit`;
+    case "deposit_refunded":
+      return `Refunded ${formatMoney(event.amountMinor, event.currency)} of the deposit`;
   }
 }
 
 /** A stored row back as an event; a kind this version does not know (or bad particulars) reads as null. */
-export function readOrderEvent(kind: string, detail: unknown): OrderEvent | null {
+export function readOrderEvent(kind: string, detail: unknown): StoredOrderEvent | null {
   if (typeof detail !== "object" || detail === null) return null;
   const d = detail as Record<string, unknown>;
   const str = (k: string) => typeof d[k] === "string";
   const num = (k: string) => typeof d[k] === "number";
-  const ok: Record<OrderEventKind, () => boolean> = {
+  const ok: Record<StoredKind, () => boolean> = {
     created: () => num("lines"),
     header: () => Array.isArray(d.changes) && d.changes.every((c) => typeof c === "object" && c !== null && c.field in FIELD_NAMES && typeof c.from === "string" && typeof c.to === "string"),
     line_added: () => str("product") && num("quantity"),
@@ -105,6 +116,6 @@ export function readOrderEvent(kind: string, detail: unknown): OrderEvent | null
     confirmation_failed: () => str("error"),
     ready_notice: () => str("to"),
   };
-  if (!(kind in ok) || !ok[kind as OrderEventKind]()) return null;
-  return { kind, ...d } as OrderEvent;
+  if (!(kind in ok) || !ok[kind as StoredKind]()) return null;
+  return { kind, ...d } as StoredOrderEvent;
 }

@@ -1,7 +1,7 @@
 import { and, asc, eq } from "drizzle-orm";
-import { orderEvents, orders, users } from "../../db/schema";
+import { depositMoves, deposits, orderEvents, orders, users } from "../../db/schema";
 import { getDb, type Queryable } from "~/db.server";
-import { describeOrderEvent, readOrderEvent, splitEvent, type OrderEvent } from "~/lib/order-history";
+import { describeOrderEvent, readOrderEvent, splitEvent, type OrderEvent, type StoredOrderEvent } from "~/lib/order-history";
 
 /** Who did it and when; `by` is a member's id, or null for Stopwise itself. */
 export interface EventContext {
@@ -10,21 +10,54 @@ export interface EventContext {
 }
 
 /** Writes one history entry, inside the caller's transaction when given one, so it lands with the change it tells of. */
-export async function logOrderEvent(db: Queryable, shopId: string, orderId: string, event: OrderEvent, { by = null, at }: EventContext = {}): Promise<void> {
+export async function logOrderEvent(db: Queryable, shopId: string, orderId: string, event: StoredOrderEvent, { by = null, at }: EventContext = {}): Promise<void> {
   await db.insert(orderEvents).values({ shopId, orderId, ...splitEvent(event), actorId: by, ...(at ? { at } : {}) });
 }
 
-/** An order's history, oldest first, in words; empty for another shop's order. */
-export async function orderHistory(shopId: string, orderId: string) {
-  const rows = await getDb()
-    .select({ id: orderEvents.id, kind: orderEvents.kind, detail: orderEvents.detail, at: orderEvents.at, actor: users.name })
-    .from(orderEvents)
-    .innerJoin(orders, and(eq(orders.id, orderEvents.orderId), eq(orders.shopId, shopId)))
-    .leftJoin(users, eq(users.id, orderEvents.actorId))
-    .where(and(eq(orderEvents.orderId, orderId), eq(orderEvents.shopId, shopId)))
-    .orderBy(asc(orderEvents.at), asc(orderEvents.id));
-  return rows.flatMap((r) => {
-    const event = readOrderEvent(r.kind, r.detail);
-    return event ? [{ id: r.id, at: r.at.toISOString(), actor: r.actor, text: describeOrderEvent(event) }] : [];
-  });
+export interface HistoryEntry {
+  id: string;
+  at: string;
+  actor: string | null;
+  text: string;
+}
+
+/**
+ * An order's history, oldest first, in words; empty for another shop's order. With `deposits` (for
+ * those who may read them) it also tells each deposit asked, paid and refunded, from the deposit's
+ * own records: they are the payment service's word, so they are not copied.
+ */
+export async function orderHistory(shopId: string, orderId: string, { deposits: withDeposits = false } = {}): Promise<HistoryEntry[]> {
+  const db = getDb();
+  const [rows, asked, moves] = await Promise.all([
+    db
+      .select({ id: orderEvents.id, kind: orderEvents.kind, detail: orderEvents.detail, at: orderEvents.at, actor: users.name })
+      .from(orderEvents)
+      .innerJoin(orders, and(eq(orders.id, orderEvents.orderId), eq(orders.shopId, shopId)))
+      .leftJoin(users, eq(users.id, orderEvents.actorId))
+      .where(and(eq(orderEvents.orderId, orderId), eq(orderEvents.shopId, shopId))),
+    withDeposits
+      ? db
+          .select({ id: deposits.id, amountMinor: deposits.amountMinor, currency: deposits.currency, at: deposits.requestedAt })
+          .from(deposits)
+          .where(and(eq(deposits.orderId, orderId), eq(deposits.shopId, shopId)))
+      : [],
+    withDeposits
+      ? db
+          .select({ id: depositMoves.id, kind: depositMoves.kind, amountMinor: depositMoves.amountMinor, currency: depositMoves.currency, at: depositMoves.occurredAt, asked: deposits.requestedAt, actor: users.name })
+          .from(depositMoves)
+          .innerJoin(deposits, eq(deposits.id, depositMoves.depositId))
+          .leftJoin(users, eq(users.id, depositMoves.recordedBy))
+          .where(and(eq(deposits.orderId, orderId), eq(depositMoves.shopId, shopId)))
+      : [],
+  ]);
+  const told: { id: string; at: Date; actor: string | null; event: OrderEvent | null }[] = [
+    ...rows.map((r) => ({ id: r.id, at: r.at, actor: r.actor, event: readOrderEvent(r.kind, r.detail) })),
+    ...asked.map((d) => ({ id: d.id, at: d.at, actor: null, event: { kind: "deposit_asked", amountMinor: d.amountMinor, currency: d.currency } as const })),
+    // The service stamps a payment to the second; it never comes before its ask.
+    ...moves.map((m) => ({ id: m.id, at: m.at < m.asked ? m.asked : m.at, actor: m.actor, event: { kind: m.kind === "payment" ? "deposit_paid" : "deposit_refunded", amountMinor: m.amountMinor, currency: m.currency } as const })),
+  ];
+  return told
+    .filter((e) => e.event !== null)
+    .sort((a, b) => a.at.getTime() - b.at.getTime())
+    .map((e) => ({ id: e.id, at: e.at.toISOString(), actor: e.actor, text: describeOrderEvent(e.event!) }));
 }

@@ -48,7 +48,7 @@ export async function loader(args: Route.LoaderArgs) {
       seesDeposits ? orderDeposit(user.shopId, order.id) : null,
       seesDeposits ? orderMoves(user.shopId, order.id) : [],
       canWrite && paymentsConfigured() ? proposedDeposit(user.shopId, order.id) : null,
-      orderHistory(user.shopId, order.id),
+      orderHistory(user.shopId, order.id, { deposits: seesDeposits }),
       orderProgress(user.shopId, order),
     ]),
   );

@@ -184,6 +184,17 @@ describe("deposits", () => {
     const page = visible((await request(server).get(`/orders/${order.id}`).set("Cookie", owner)).text);
     expect(page).toContain("Deposit refunded");
     expect(page).toMatch(/data-testid="balance-due">€202\.00/);
+
+    // The history tells the deposit's story from its own records, to those who may read deposits.
+    const words = (html: string) => html.replace(/<!-- -->/g, "").replace(/<[^>]+>/g, "");
+    const told = words(page);
+    const steps = ["Confirmed the order", "Asked a deposit of €60.60", "The customer paid €60.60 of the deposit", `Refunded €60.60 of the deposit · owner ${shop.name.split(" ").pop()}`];
+    expect(steps.map((step) => told.indexOf(step)).every((i) => i >= 0), told.slice(told.indexOf("History"))).toBe(true);
+    expect(steps.map((step) => told.indexOf(step))).toEqual(steps.map((step) => told.indexOf(step)).sort((a, b) => b - a)); // newest first
+    const planner = words((await request(server).get(`/orders/${order.id}`).set("Cookie", await signIn(server, shop.users.planner))).text);
+    expect(planner).toContain("Confirmed the order");
+    expect(planner).not.toContain("of the deposit");
+    expect(planner).not.toContain("Asked a deposit");
   });
 
   it("a deposit can be asked after confirming; a cancelled checkout leaves it asked", async () => {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { describeOrderEvent, headerChanges, readOrderEvent, splitEvent, type OrderEvent } from "~/lib/order-history";
+import { describeOrderEvent, headerChanges, readOrderEvent, splitEvent, type StoredOrderEvent } from "~/lib/order-history";
 
 const header = { customer: "Ardent–Vasquez wedding", eventDate: "2027-01-16", dueDate: "2027-01-02", notes: "" };
 
@@ -14,7 +14,7 @@ describe("what a header edit changed", () => {
 });
 
 describe("the history's words", () => {
-  const cases: [OrderEvent, string][] = [
+  const cases: [StoredOrderEvent, string][] = [
     [{ kind: "created", lines: 0 }, "Took the order, with no lines yet"],
     [{ kind: "created", lines: 1 }, "Took the order, with 1 line"],
     [{ kind: "created", lines: 3 }, "Took the order, with 3 lines"],
@@ -34,6 +34,12 @@ describe("the history's words", () => {
     expect(describeOrderEvent(event)).toBe(text);
     const { kind, detail } = splitEvent(event);
     expect(readOrderEvent(kind, JSON.parse(JSON.stringify(detail)))).toEqual(event); // as stored in jsonb and read back
+  });
+
+  it("tells a deposit's money in its currency", () => {
+    expect(describeOrderEvent({ kind: "deposit_asked", amountMinor: 12_540, currency: "GBP" })).toBe("Asked a deposit of £125.40");
+    expect(describeOrderEvent({ kind: "deposit_paid", amountMinor: 6_000, currency: "EUR" })).toBe("The customer paid €60.00 of the deposit");
+    expect(describeOrderEvent({ kind: "deposit_refunded", amountMinor: 6_000, currency: "EUR" })).toBe("Refunded €60.00 of the deposit");
   });
 
   it("shortens long notes to 60 characters", () => {
