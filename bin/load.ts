@@ -271,6 +271,8 @@ let written = 0;
 const routes: Route[] = [
   { name: "/ (home: what is waiting)", role: "owner", kind: "page", paths: cycle(["/"]) },
   { name: "/orders", role: "owner", kind: "page", paths: cycle(["/orders", "/orders?status=confirmed", "/orders?sort=due&page=3"]) },
+  // A search reads every personalisation text of the shop's orders (no index serves an ilike inside jsonb).
+  { name: "/orders?q= (search)", role: "owner", kind: "page", paths: cycle(["/orders?q=Guest%2017", "/orders?q=Walk", "/orders?q=nobody-of-that-name"]) },
   { name: "/orders/:id", role: "owner", kind: "page", paths: cycle(someOrders) },
   { name: "/customers", role: "owner", kind: "page", paths: cycle(["/customers"]) },
   { name: "/api/orders", role: "owner", kind: "api", paths: cycle(["/api/orders?sort=due", "/api/orders?status=confirmed"]) },

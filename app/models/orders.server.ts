@@ -22,6 +22,9 @@ export function orderListQuery(request: Request): ListQuery<OrderSort> {
 
 const lineTotal = sql<number>`coalesce((select sum(${orderLines.quantity}::bigint * ${orderLines.unitPriceMinor}) from ${orderLines} where ${orderLines.orderId} = ${orders.id}), 0)::bigint`;
 const itemCount = sql<number>`coalesce((select sum(${orderLines.quantity}) from ${orderLines} where ${orderLines.orderId} = ${orders.id}), 0)::int`;
+// The order's personalisation texts, one row each, for the search: a guest's name finds their order.
+const textsLike = (pattern: string) =>
+  sql`from ${orderLines} ol cross join lateral jsonb_array_elements_text(ol.personalisation) as t(text) where ol.order_id = ${orders.id} and t.text ilike ${pattern}`;
 // The status of the order's latest deposit (one index probe per listed order), null when none was asked.
 const latestDeposit = sql<DepositStatus | null>`(select d.status from deposits d where d.shop_id = "orders"."shop_id" and d.order_id = "orders"."id" order by d.requested_at desc limit 1)`;
 
@@ -36,6 +39,8 @@ export type OrderListRow = {
   totalMinor: number;
   /** The latest deposit's status, for those who may see deposits (else always null). */
   deposit: DepositStatus | null;
+  /** With a search: the first personalisation text it found, to show why the order is listed (else null). */
+  matched: string | null;
 };
 
 /**
@@ -51,7 +56,7 @@ export async function listOrders(shopId: string, query: ListQuery<OrderSort>, { 
     eq(orders.shopId, shopId),
     query.filters.status ? eq(orders.status, query.filters.status as OrderStatus) : undefined,
     depositFilter ? (depositFilter === "none" ? sql`${latestDeposit} is null` : sql`${latestDeposit} = ${depositFilter}`) : undefined,
-    q ? or(ilike(customers.name, likePattern(q)), /^\d+$/.test(q) ? eq(orders.number, Number(q)) : undefined) : undefined,
+    q ? or(ilike(customers.name, likePattern(q)), /^\d+$/.test(q) ? eq(orders.number, Number(q)) : undefined, sql`exists (select 1 ${textsLike(likePattern(q))})`) : undefined,
   );
   const sortColumn = { number: orders.number, customer: customers.name, event: orders.eventDate, due: orders.dueDate, status: orders.status, total: lineTotal }[query.sort];
   const [rows, [summary]] = await Promise.all([
@@ -66,6 +71,7 @@ export async function listOrders(shopId: string, query: ListQuery<OrderSort>, { 
         items: itemCount,
         totalMinor: lineTotal,
         deposit: seesDeposits ? latestDeposit : sql<null>`null`,
+        matched: q ? sql<string | null>`(select t.text ${textsLike(likePattern(q))} order by ol.id limit 1)` : sql<null>`null`,
       })
       .from(orders)
       .innerJoin(customers, eq(customers.id, orders.customerId))

@@ -43,7 +43,17 @@ export default function Orders({ loaderData }: Route.ComponentProps) {
   const { currency, canWrite, seesDeposits } = loaderData;
   const columns: Column<OrderListRow>[] = [
     { key: "number", label: "Order", sortable: true, cell: (o) => <a href={`/orders/${o.id}`} className="font-semibold text-edge hover:underline">{`#${o.number}`}</a> },
-    { key: "customer", label: "Customer", sortable: true, cell: (o) => o.customer },
+    {
+      key: "customer",
+      label: "Customer",
+      sortable: true,
+      cell: (o) => (
+        <>
+          {o.customer}
+          {o.matched && <span className="block text-sm text-muted">Text: “{o.matched}”</span>}
+        </>
+      ),
+    },
     { key: "event", label: "Event", sortable: true, cell: (o) => formatDate(o.eventDate) },
     { key: "due", label: "Due", sortable: true, cell: (o) => formatDate(o.dueDate) },
     { key: "status", label: "Status", sortable: true, cell: (o) => <StatusBadge status={o.status} /> },
@@ -64,7 +74,7 @@ export default function Orders({ loaderData }: Route.ComponentProps) {
           </Link>
         )}
       </div>
-      <ListSearch label="Search by customer or order number" placeholder="e.g. Ardent or 1001">
+      <ListSearch label="Search by customer, order number or personalisation text" placeholder="e.g. Ardent, 1001 or a guest's name">
         <ListFilter label="Status" name="status" value={params.get("status") ?? undefined} anyLabel="Any" options={ORDER_STATUSES.map((s) => ({ value: s, label: STATUS_LABELS[s] }))} />
         {seesDeposits && (
           <ListFilter label="Deposit" name="deposit" value={params.get("deposit") ?? undefined} anyLabel="Any" options={DEPOSIT_FILTERS.map((d) => ({ value: d, label: DEPOSIT_FILTER_LABELS[d] }))} />

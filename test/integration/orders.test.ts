@@ -461,6 +461,30 @@ describe("the order list", () => {
   });
 });
 
+describe("finding an order by a personalisation text", () => {
+  it("a guest's name finds their order, says which text matched, and finds nothing in another shop", async () => {
+    const mine = await createShop("Texts");
+    const cat = await createCatalogue(mine.id);
+    const line = (texts: string[]) => ({ productId: cat.tableNumber.id, quantity: texts.length, personalisation: texts, notes: "", files: [] });
+    const wedding = await createOrder(mine.id, { customerId: cat.customer.id, eventDate: "2027-06-05", dueDate: "2027-05-20", notes: "" }, [line(["Table 1", "Zoë Ardent", "Anh 100% Ardent"])]);
+    await createOrder(mine.id, { customerId: cat.customer.id, eventDate: "2027-06-12", dueDate: "2027-05-27", notes: "" }, [line(["Table 9"])]);
+    const theirs = await createShop("Texts elsewhere");
+    const theirCat = await createCatalogue(theirs.id);
+    await createOrder(theirs.id, { customerId: theirCat.customer.id, eventDate: "2027-06-05", dueDate: "2027-05-20", notes: "" }, [{ ...line(["Zoë Ardent"]), productId: theirCat.tableNumber.id }]);
+
+    const cookie = await signIn(server, mine.users.owner);
+    const find = async (q: string) => (await request(server).get(`/api/orders?q=${encodeURIComponent(q)}`).set("Cookie", cookie)).body.rows as { id: string; matched: string | null }[];
+    expect(await find("zoë")).toEqual([expect.objectContaining({ id: wedding.id, matched: "Zoë Ardent" })]);
+    expect(await find("100%")).toEqual([expect.objectContaining({ id: wedding.id, matched: "Anh 100% Ardent" })]); // % is a character, not a wildcard
+    expect(await find("10_%")).toEqual([]);
+    expect(await find("Guest list of nobody")).toEqual([]);
+    // Without a search nothing is marked as matched.
+    expect((await find("")).map((r) => r.matched)).toEqual([null, null]);
+    const html = (await request(server).get("/orders?q=zo%C3%AB").set("Cookie", cookie)).text;
+    expect(visible(html)).toContain("Text: “Zoë Ardent”");
+  });
+});
+
 describe("an order's history", () => {
   it("tells who did what to the order, newest first, and nothing of a refused or empty change", async () => {
     const made = await newOrder()
