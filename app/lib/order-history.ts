@@ -13,7 +13,7 @@ export interface HeaderChange {
 
 /** One thing done to an order, as stored, with the particulars as they were then (names, e-mail addresses). */
 export type StoredOrderEvent =
-  | { kind: "created"; lines: number }
+  | { kind: "created"; lines: number; repeatOf?: number; leftOut?: string[] }
   | { kind: "header"; changes: HeaderChange[] }
   | { kind: "line_added"; product: string; quantity: number }
   | { kind: "line_removed"; product: string; quantity: number }
@@ -71,8 +71,12 @@ const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? o
 /** One line of the history, for people. */
 export function describeOrderEvent(event: OrderEvent): string {
   switch (event.kind) {
-    case "created":
-      return event.lines === 0 ? "Took the order, with no lines yet" : `Took the order, with ${plural(event.lines, "line")}`;
+    case "created": {
+      const taken = event.lines === 0 ? "Took the order, with no lines yet" : `Took the order, with ${plural(event.lines, "line")}`;
+      if (event.repeatOf === undefined) return taken;
+      const leftOut = event.leftOut?.length ? `; left out ${event.leftOut.join(", ")}, no longer offered` : "";
+      return `${taken}, repeating #${event.repeatOf}${leftOut}`;
+    }
     case "header":
       if (event.changes.length === 0) return "Saved the order's details unchanged";
       return `Changed ${event.changes.map((c) => `${FIELD_NAMES[c.field]} from ${shown(c.field, c.from)} to ${shown(c.field, c.to)}`).join("; ")}`;
@@ -106,7 +110,7 @@ export function readOrderEvent(kind: string, detail: unknown): StoredOrderEvent 
   const str = (k: string) => typeof d[k] === "string";
   const num = (k: string) => typeof d[k] === "number";
   const ok: Record<StoredKind, () => boolean> = {
-    created: () => num("lines"),
+    created: () => num("lines") && (d.repeatOf === undefined || num("repeatOf")) && (d.leftOut === undefined || (Array.isArray(d.leftOut) && d.leftOut.every((x) => typeof x === "string"))),
     header: () => Array.isArray(d.changes) && d.changes.every((c) => typeof c === "object" && c !== null && c.field in FIELD_NAMES && typeof c.from === "string" && typeof c.to === "string"),
     line_added: () => str("product") && num("quantity"),
     line_removed: () => str("product") && num("quantity"),

@@ -1,7 +1,7 @@
 import * as v from "valibot";
 import { isIsoDate } from "./dates";
 
-const IsoDate = (label: string) => v.pipe(v.string(`Enter the ${label}.`), v.trim(), v.nonEmpty(`Enter the ${label}.`), v.check(isIsoDate, `Enter the ${label} as a date, like 2027-01-16.`));
+export const IsoDate = (label: string) => v.pipe(v.string(`Enter the ${label}.`), v.trim(), v.nonEmpty(`Enter the ${label}.`), v.check(isIsoDate, `Enter the ${label} as a date, like 2027-01-16.`));
 
 export const OrderHeaderSchema = v.pipe(
   v.object({

@@ -2,6 +2,7 @@ import { and, asc, count, desc, eq, ilike, inArray, isNull, or, sql } from "driz
 import { batches, batchLines, customers, lineFiles, orderLines, orders, products, shops } from "../../db/schema";
 import { getDb, type WriteContext } from "~/db.server";
 import { batchCode } from "~/lib/batches";
+import { defaultDueDate } from "~/lib/dates";
 import { DEPOSIT_FILTERS, type DepositStatus } from "~/lib/deposits";
 import { likePattern, parseListQuery, type ListQuery } from "~/lib/listing";
 import { headerChanges } from "~/lib/order-history";
@@ -168,7 +169,7 @@ export type OrderHeader = { customerId: string; eventDate: string; dueDate: stri
  * Writes an order and all its lines and file records in one transaction; the shop row is locked so
  * two orders made at once get consecutive numbers. Prices are the products' current prices.
  */
-export async function createOrder(shopId: string, header: OrderHeader, lines: NewLine[], who: EventContext = {}): Promise<{ id: string; number: number }> {
+export async function createOrder(shopId: string, header: OrderHeader, lines: NewLine[], who: EventContext & { repeatOf?: number; leftOut?: string[] } = {}): Promise<{ id: string; number: number }> {
   return getDb().transaction(async (tx) => {
     await tx.select({ id: shops.id }).from(shops).where(eq(shops.id, shopId)).for("update");
     const [customer] = await tx.select({ id: customers.id }).from(customers).where(and(eq(customers.id, header.customerId), eq(customers.shopId, shopId)));
@@ -176,9 +177,34 @@ export async function createOrder(shopId: string, header: OrderHeader, lines: Ne
     const [{ next }] = await tx.select({ next: sql<number>`coalesce(max(${orders.number}), 1000) + 1` }).from(orders).where(eq(orders.shopId, shopId));
     const [order] = await tx.insert(orders).values({ shopId, number: next, ...header }).returning({ id: orders.id, number: orders.number });
     await insertLines(tx, shopId, order.id, lines);
-    await logOrderEvent(tx, shopId, order.id, { kind: "created", lines: lines.length }, who);
+    const repeat = who.repeatOf === undefined ? {} : { repeatOf: who.repeatOf, leftOut: who.leftOut ?? [] };
+    await logOrderEvent(tx, shopId, order.id, { kind: "created", lines: lines.length, ...repeat }, who);
     return order;
   });
+}
+
+/**
+ * A new draft for the same customer with the same lines at today's prices (their texts too, unless
+ * asked not to), due by the products' lead times before the new event. Lines of products no longer
+ * offered are left out, as its history says; with none left it is refused. Artwork files stay with
+ * the first order. Null: not this shop's order.
+ */
+export async function repeatOrder(shopId: string, orderId: string, { eventDate, texts }: { eventDate: string; texts: boolean }, who: EventContext = {}): Promise<{ id: string; number: number } | null> {
+  const db = getDb();
+  const [source] = await db.select({ number: orders.number, customerId: orders.customerId }).from(orders).where(and(eq(orders.id, orderId), eq(orders.shopId, shopId)));
+  if (!source) return null;
+  const lines = await db
+    .select({ productId: orderLines.productId, product: products.name, retiredAt: products.retiredAt, leadTimeDays: products.leadTimeDays, quantity: orderLines.quantity, personalisation: orderLines.personalisation, notes: orderLines.notes })
+    .from(orderLines)
+    .innerJoin(products, eq(products.id, orderLines.productId))
+    .where(eq(orderLines.orderId, orderId))
+    .orderBy(asc(products.name), asc(orderLines.id));
+  const offered = lines.filter((l) => l.retiredAt === null);
+  if (offered.length === 0) throw new OrderStateError("None of this order's products is offered any more, so there is nothing to order again.");
+  const dueDate = defaultDueDate(eventDate, offered.map((l) => l.leadTimeDays));
+  const leftOut = [...new Set(lines.filter((l) => l.retiredAt !== null).map((l) => l.product))];
+  const newLines = offered.map((l) => ({ productId: l.productId, quantity: l.quantity, personalisation: texts ? l.personalisation : [], notes: l.notes, files: [] }));
+  return createOrder(shopId, { customerId: source.customerId, eventDate, dueDate, notes: "" }, newLines, { ...who, repeatOf: source.number, leftOut });
 }
 
 type Tx = Parameters<Parameters<ReturnType<typeof getDb>["transaction"]>[0]>[0];

@@ -13,7 +13,7 @@ import type { ProgressItem } from "~/lib/line-progress";
 import { parseForm } from "~/lib/forms";
 import { formatMoney } from "~/lib/money";
 import { checkLines, rawLinesFrom } from "~/lib/order-lines";
-import { OrderHeaderSchema } from "~/lib/order-schema";
+import { IsoDate, OrderHeaderSchema } from "~/lib/order-schema";
 import { linesEditable, nextStatuses, ORDER_STATUSES, STATUS_LABELS } from "~/lib/order-status";
 import { can } from "~/lib/permissions";
 import { balanceOf, unchargeableDeposit } from "~/lib/deposits";
@@ -23,7 +23,7 @@ import { publicOrigin } from "~/mail.server";
 import { paymentErrorMessage, paymentsConfigured } from "~/payments.server";
 import { chooseCustomer, searchCustomers } from "~/models/customers.server";
 import { readOrderForm, withStoredArtwork } from "~/models/order-input.server";
-import { addLines, getOrder, moveOrder, OrderStateError, productChoices, removeLine, updateHeader, updateLineTexts } from "~/models/orders.server";
+import { addLines, getOrder, moveOrder, OrderStateError, productChoices, removeLine, repeatOrder, updateHeader, updateLineTexts } from "~/models/orders.server";
 import { orderMaterialCost } from "~/models/ledger.server";
 import { orderHistory } from "~/models/order-history.server";
 import { orderProgress } from "~/models/order-progress.server";
@@ -81,6 +81,7 @@ const ActionSchema = v.variant("intent", [
   v.object({ intent: v.literal("remove-line"), lineId: Uuid }),
   v.object({ intent: v.literal("header") }),
   v.object({ intent: v.literal("line-texts"), lineId: Uuid, texts: v.optional(v.string(), "") }),
+  v.object({ intent: v.literal("repeat"), repeatEventDate: IsoDate("new event's date"), repeatTexts: v.optional(v.picklist(["yes"])) }),
 ], "Unknown action.");
 
 export async function action(args: Route.ActionArgs) {
@@ -88,7 +89,7 @@ export async function action(args: Route.ActionArgs) {
   const orderId = args.params.orderId;
   if (!v.is(Uuid, orderId)) throw data("No such order in this shop.", { status: 404 });
   const { fields, entries } = await readOrderForm(args.request);
-  const parsed = parseForm(ActionSchema, fields, ["to", "deposit", "lineId"]);
+  const parsed = parseForm(ActionSchema, fields, ["to", "deposit", "lineId", "repeatTexts"]);
   if (!parsed.ok) return data({ errors: parsed.errors, values: fields, intent: fields.intent }, { status: 400 });
   const input = parsed.data;
   const fail = (message: string, status = 409) => data({ errors: { form: message } as Record<string, string>, values: fields, intent: input.intent }, { status });
@@ -171,6 +172,11 @@ export async function action(args: Route.ActionArgs) {
         const field = `texts-${input.lineId}`;
         if (!saved.ok) return data({ errors: { [field]: saved.error } as Record<string, string>, values: fields, intent: field }, { status: 400 });
         break;
+      }
+      case "repeat": {
+        const made = await repeatOrder(user.shopId, orderId, { eventDate: input.repeatEventDate, texts: input.repeatTexts === "yes" }, { by: user.id });
+        if (!made) throw notFound();
+        return redirect(`/orders/${made.id}`);
       }
       case "header": {
         const customer = await chooseCustomer(user.shopId, fields.customerId, fields.customer);
@@ -385,6 +391,24 @@ export default function OrderPage({ loaderData, actionData }: Route.ComponentPro
             <Field label="Due date" name="dueDate" type="date" defaultValue={order.dueDate} error={errors.dueDate} />
             <Field label="Notes" name="notes" defaultValue={order.notes} error={errors.notes} />
             <SubmitButton className="md:col-span-3 md:w-fit">Save changes</SubmitButton>
+          </Form>
+        </details>
+      )}
+
+      {canWrite && (
+        <details className="rounded-lg border border-line bg-card p-4" open={actionData?.intent === "repeat"}>
+          <summary className="cursor-pointer font-semibold">Order again…</summary>
+          <Form method="post" encType="multipart/form-data" className="mt-4 grid gap-4 md:grid-cols-3 md:items-end" noValidate>
+            <input type="hidden" name="intent" value="repeat" />
+            <p className="text-sm text-muted md:col-span-3">
+              A new draft for {order.customerName} with these lines at today's prices, due by the products' lead times. Artwork files stay with this order.
+            </p>
+            <Field label="The new event's date" name="repeatEventDate" type="date" error={actionData?.intent === "repeat" ? errors.repeatEventDate : undefined} defaultValue={actionData?.intent === "repeat" ? String(actionData.values.repeatEventDate ?? "") : ""} />
+            <label className="flex min-h-11 items-center gap-2 text-sm">
+              <input type="checkbox" name="repeatTexts" value="yes" defaultChecked className="size-5 accent-edge" />
+              <span>Copy the personalisation texts</span>
+            </label>
+            <SubmitButton pendingText="Making the draft…" className="md:w-fit">Make the new draft</SubmitButton>
           </Form>
         </details>
       )}

@@ -78,8 +78,8 @@ beforeAll(async () => {
 });
 afterAll(() => stopPlanRunner());
 
-const INTENTS = ["invite", "role", "remove", "revoke", "move", "resend", "ready-notice", "add-lines", "remove-line", "line-texts", "header", "create", "unhold", "move-line", "hold-line", "run-plan", "cancel-plan", "release", "spoil", "close", "add", "discard", "material", "panel", "delete", "request-deposit", "refund-deposit", "retire", "restore", "delete-product", ""];
-const FIELDS = ["intent", "email", "role", "memberId", "invitationId", "to", "lineId", "customerId", "customer", "eventDate", "dueDate", "notes", "name", "phone", "kerfMm", "trimMm", "seconds", "stages", "objective", "planId", "targetBatchId", "dueBy", "materialId", "length", "width", "location", "grain", "offcutId", "part", "quantity", "reason", "line-0-product", "line-0-quantity", "line-0-texts", "line-0-csvHeader", "line-0-followRows", "setupIndex", "countCut", "parts", "price", "leadTimeDays", "unit", "currency", "deposit", "depositRule", "depositPercent", "depositFixedMinor"];
+const INTENTS = ["invite", "role", "remove", "revoke", "move", "resend", "ready-notice", "repeat", "add-lines", "remove-line", "line-texts", "header", "create", "unhold", "move-line", "hold-line", "run-plan", "cancel-plan", "release", "spoil", "close", "add", "discard", "material", "panel", "delete", "request-deposit", "refund-deposit", "retire", "restore", "delete-product", ""];
+const FIELDS = ["intent", "email", "role", "memberId", "invitationId", "to", "lineId", "customerId", "customer", "eventDate", "dueDate", "notes", "name", "phone", "kerfMm", "trimMm", "seconds", "stages", "objective", "planId", "targetBatchId", "dueBy", "materialId", "length", "width", "location", "grain", "offcutId", "part", "quantity", "reason", "line-0-product", "line-0-quantity", "line-0-texts", "line-0-csvHeader", "line-0-followRows", "setupIndex", "countCut", "parts", "price", "leadTimeDays", "unit", "currency", "deposit", "depositRule", "depositPercent", "depositFixedMinor", "repeatEventDate", "repeatTexts"];
 
 const nasty = fc.oneof(
   fc.string(),

@@ -1,9 +1,9 @@
-import { count, eq } from "drizzle-orm";
+import { count, eq, inArray } from "drizzle-orm";
 import { readdirSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import request from "supertest";
 import { beforeAll, describe, expect, it } from "vitest";
-import { batches, batchLines, customers, depositMoves, deposits, lineFiles, materials, orderEvents, orderLines, orders, users } from "../../db/schema";
+import { batches, batchLines, customers, depositMoves, deposits, lineFiles, materials, orderEvents, orderLines, orders, products, users } from "../../db/schema";
 import { appServer, visible } from "../support/app";
 import { createShop, signIn, type TestShop } from "../support/factories";
 import { createCatalogue } from "../support/order-factories";
@@ -556,5 +556,54 @@ describe("an order's history", () => {
     // Another shop reads none of it.
     const other = await createShop("Other history");
     expect(await orderHistory(other.id, order.id)).toEqual([]);
+  });
+});
+
+describe("ordering again", () => {
+  it("makes a new draft for the same customer and lines at today's prices, due by lead time, leaving out what is no longer offered", async () => {
+    const cat = await createCatalogue(shop.id);
+    const first = await createOrder(shop.id, { customerId: cat.customer.id, eventDate: "2027-01-16", dueDate: "2027-01-02", notes: "Barn venue" }, [
+      { productId: cat.tableNumber.id, quantity: 2, personalisation: ["Breakfast", "Lunch"], notes: "gold ink", files: [] },
+      { productId: cat.sign.id, quantity: 1, personalisation: [], notes: "", files: [] },
+      { productId: cat.placeCard.id, quantity: 1, personalisation: ["Ana"], notes: "", files: [] },
+    ]);
+    await getDb().update(products).set({ priceMinor: 700 }).where(eq(products.id, cat.tableNumber.id));
+    await getDb().update(products).set({ retiredAt: new Date() }).where(eq(products.id, cat.placeCard.id));
+    const again = (fields: Record<string, string>) => {
+      let req = request(server).post(`/orders/${first.id}`).set("Cookie", owner).field("intent", "repeat");
+      for (const [k, val] of Object.entries(fields)) req = req.field(k, val);
+      return req;
+    };
+    const count = await orderCount();
+    const bad = await again({ repeatEventDate: "next spring" });
+    expect(bad.status).toBe(400);
+    expect(visible(bad.text)).toContain("Enter the new event's date as a date, like 2027-01-16.");
+    expect(bad.text).toContain('id="field-repeatEventDate-error"');
+    expect(await orderCount()).toBe(count);
+
+    const made = await again({ repeatEventDate: "2028-01-15", repeatTexts: "yes" });
+    expect(made.status).toBe(302);
+    const id = made.headers.location.split("/").pop()!;
+    expect(id).not.toBe(first.id);
+    const [order] = await getDb().select().from(orders).where(eq(orders.id, id));
+    expect(order).toMatchObject({ customerId: cat.customer.id, eventDate: "2028-01-15", dueDate: "2028-01-01", status: "draft", notes: "" }); // the sign's 14 days
+    const lines = await getDb().select().from(orderLines).where(eq(orderLines.orderId, id));
+    expect(lines.map((l) => [l.productId, l.quantity, l.unitPriceMinor, l.personalisation, l.notes]).sort()).toEqual(
+      [
+        [cat.sign.id, 1, 8500, [], ""],
+        [cat.tableNumber.id, 2, 700, ["Breakfast", "Lunch"], "gold ink"],
+      ].sort(),
+    );
+    expect((await orderHistory(shop.id, id)).map((e) => e.text)).toEqual([`Took the order, with 2 lines, repeating #${(await getDb().select().from(orders).where(eq(orders.id, first.id)))[0].number}; left out Place card, no longer offered`]);
+
+    const bare = await again({ repeatEventDate: "2028-02-12" });
+    const bareLines = await getDb().select().from(orderLines).where(eq(orderLines.orderId, bare.headers.location.split("/").pop()!));
+    expect(bareLines.every((l) => l.personalisation.length === 0)).toBe(true); // texts not asked for
+
+    await getDb().update(products).set({ retiredAt: new Date() }).where(inArray(products.id, [cat.sign.id, cat.tableNumber.id]));
+    const none = await again({ repeatEventDate: "2028-03-11" });
+    expect(none.status).toBe(409);
+    expect(visible(none.text)).toContain("None of this order's products is offered any more");
+    expect((await request(server).post(`/orders/${first.id}`).set("Cookie", await signIn(server, shop.users.bookkeeper)).field("intent", "repeat").field("repeatEventDate", "2028-01-15")).status).toBe(403);
   });
 });

@@ -18,6 +18,8 @@ describe("the history's words", () => {
     [{ kind: "created", lines: 0 }, "Took the order, with no lines yet"],
     [{ kind: "created", lines: 1 }, "Took the order, with 1 line"],
     [{ kind: "created", lines: 3 }, "Took the order, with 3 lines"],
+    [{ kind: "created", lines: 2, repeatOf: 991, leftOut: [] }, "Took the order, with 2 lines, repeating #991"],
+    [{ kind: "created", lines: 1, repeatOf: 991, leftOut: ["Place card", "Coaster"] }, "Took the order, with 1 line, repeating #991; left out Place card, Coaster, no longer offered"],
     [{ kind: "header", changes: [{ field: "dueDate", from: "2027-01-02", to: "2026-12-30" }, { field: "customer", from: "A", to: "B" }] }, "Changed the due date from Sat, 2 Jan 2027 to Wed, 30 Dec 2026; the customer from A to B"],
     [{ kind: "header", changes: [{ field: "notes", from: "Rustic", to: "" }] }, "Changed the notes from “Rustic” to none"],
     [{ kind: "line_added", product: "Table number 150 × 210", quantity: 18 }, "Added 18 × Table number 150 × 210"],
@@ -53,5 +55,7 @@ describe("the history's words", () => {
     expect(readOrderEvent("status", { from: "draft", to: "lost" })).toBeNull();
     expect(readOrderEvent("header", { changes: [{ field: "price", from: "1", to: "2" }] })).toBeNull();
     expect(readOrderEvent("created", null)).toBeNull();
+    expect(readOrderEvent("created", { lines: 1, repeatOf: "991" })).toBeNull();
+    expect(readOrderEvent("created", { lines: 1, repeatOf: 991, leftOut: [3] })).toBeNull();
   });
 });
