@@ -28,6 +28,7 @@ export default [
     route("orders", "routes/orders.tsx"),
     route("orders/new", "routes/orders.new.tsx"),
     route("orders/:orderId", "routes/orders.$orderId.tsx"),
+    route("calendar", "routes/calendar.tsx"),
     route("customers", "routes/customers.tsx"),
     route("customers/new", "routes/customers.new.tsx"),
     route("customers/:customerId", "routes/customers.$customerId.tsx"),

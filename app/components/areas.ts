@@ -18,6 +18,13 @@ export const AREAS: Area[] = [
     summary: "Who ordered what, for which event date, and when it must leave the shop.",
   },
   {
+    path: "/calendar",
+    permission: "orders:read",
+    label: "Calendar",
+    forWhom: "Owner",
+    summary: "The month's due days and event days, order by order.",
+  },
+  {
     path: "/customers",
     permission: "customers:read",
     label: "Customers",

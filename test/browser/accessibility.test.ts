@@ -64,6 +64,7 @@ describe("accessibility of the main screens (axe-core, WCAG 2.1 AA)", () => {
       "/orders",
       `/orders/${s.wedding.id}`,
       "/orders/new",
+      "/calendar?month=2027-01", // the scenario's orders are due and held in January 2027
       "/customers",
       `/customers/${customer.id}`,
       "/catalogue",

@@ -12,10 +12,10 @@ async function signInAs(page: Page, url: string, user: { email: string; password
 
 // What each role's navigation holds (the permission table of app/lib/permissions.ts, as people see it).
 const NAVIGATION: Record<Role, string[]> = {
-  owner: ["Orders", "Customers", "Catalogue", "Batches", "Offcut rack", "Saw station", "Sleds & saws", "Ledger", "Deposits", "Team", "Shop settings", "Outbox"],
-  planner: ["Orders", "Customers", "Catalogue", "Batches", "Offcut rack", "Saw station", "Sleds & saws", "Shop settings"],
+  owner: ["Orders", "Calendar", "Customers", "Catalogue", "Batches", "Offcut rack", "Saw station", "Sleds & saws", "Ledger", "Deposits", "Team", "Shop settings", "Outbox"],
+  planner: ["Orders", "Calendar", "Customers", "Catalogue", "Batches", "Offcut rack", "Saw station", "Sleds & saws", "Shop settings"],
   sawyer: ["Batches", "Offcut rack", "Saw station", "Sleds & saws"],
-  bookkeeper: ["Orders", "Customers", "Catalogue", "Batches", "Offcut rack", "Ledger", "Deposits"],
+  bookkeeper: ["Orders", "Calendar", "Customers", "Catalogue", "Batches", "Offcut rack", "Ledger", "Deposits"],
 };
 
 describe("in chromium", () => {

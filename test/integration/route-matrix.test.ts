@@ -45,6 +45,7 @@ const MATRIX: Record<string, Entry> = {
   "/api/customers": { get: { ...page("owner", "planner", "bookkeeper"), signedOut: 401 }, post: NO_ACTION },
   "/api/orders": { get: { ...page("owner", "planner", "bookkeeper"), signedOut: 401 }, post: NO_ACTION },
   "/orders": { get: page("owner", "planner", "bookkeeper"), post: NO_ACTION },
+  "/calendar": { get: page("owner", "planner", "bookkeeper"), post: NO_ACTION },
   "/orders/new": { get: page("owner"), post: { ...page("owner"), owner: 400 } },
   "/orders/:orderId": { get: notFoundFor("owner", "planner", "bookkeeper"), post: { ...page("owner"), owner: 400 }, sample: `/orders/${MISSING}` },
   "/orders/:orderId/files/:fileId": { get: notFoundFor("owner", "planner", "bookkeeper"), post: NO_ACTION, sample: `/orders/${MISSING}/files/${MISSING}` },
