@@ -17,6 +17,7 @@ export default [
   route("batches/:batchId/setup-sheet", "routes/batches.$batchId.setup-sheet.ts"),
   route("batches/:batchId/labels", "routes/batches.$batchId.labels.ts"),
   route("orders/:orderId/files/:fileId", "routes/orders.$orderId.files.$fileId.ts"),
+  route("orders/:orderId/checklist", "routes/orders.$orderId.checklist.ts"),
   route("sign-in", "routes/sign-in.tsx"),
   route("sign-up", "routes/sign-up.tsx"),
   route("sign-out", "routes/sign-out.tsx"),

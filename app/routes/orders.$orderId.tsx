@@ -309,7 +309,14 @@ export default function OrderPage({ loaderData, actionData }: Route.ComponentPro
       )}
 
       <section className="space-y-3">
-        <h2 className="text-xl font-semibold">Lines</h2>
+        <div className="flex flex-wrap items-baseline justify-between gap-2">
+          <h2 className="text-xl font-semibold">Lines</h2>
+          {order.lines.length > 0 && order.status !== "draft" && order.status !== "cancelled" && (
+            <a href={`/orders/${order.id}/checklist`} className="text-sm font-medium text-edge underline" target="_blank" rel="noreferrer">
+              Handover checklist (PDF)
+            </a>
+          )}
+        </div>
         {order.lines.length === 0 && <p className="text-muted">No lines yet.</p>}
         <ul className="space-y-3">
           {order.lines.map((line) => (

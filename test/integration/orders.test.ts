@@ -1,5 +1,7 @@
 import { count, eq, inArray } from "drizzle-orm";
-import { readdirSync, readFileSync } from "node:fs";
+import { execFileSync } from "node:child_process";
+import { mkdtempSync, readdirSync, readFileSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
 import { join } from "node:path";
 import request from "supertest";
 import { beforeAll, describe, expect, it } from "vitest";
@@ -605,5 +607,43 @@ describe("ordering again", () => {
     expect(none.status).toBe(409);
     expect(visible(none.text)).toContain("None of this order's products is offered any more");
     expect((await request(server).post(`/orders/${first.id}`).set("Cookie", await signIn(server, shop.users.bookkeeper)).field("intent", "repeat").field("repeatEventDate", "2028-01-15")).status).toBe(403);
+  });
+});
+
+describe("the handover checklist", () => {
+  it("prints every item by its text with a box to tick, and what is still to pay for those who see deposits", async () => {
+    const guests = Array.from({ length: 60 }, (_, i) => (i === 41 ? "Nguyễn Thảo" : `Guest ${i + 1}`));
+    const order = await createOrder(shop.id, { customerId: catalogue.customer.id, eventDate: "2027-06-05", dueDate: "2027-05-22", notes: "" }, [
+      { productId: catalogue.tableNumber.id, quantity: 60, personalisation: guests, notes: "", files: [] },
+      { productId: catalogue.sign.id, quantity: 2, personalisation: [], notes: "", files: [] },
+    ]);
+    await moveOrder(shop.id, order.id, "confirmed");
+    const work = mkdtempSync(join(tmpdir(), "checklist-"));
+    const pdfText = async (cookie: string, query = "") => {
+      const res = await request(server).get(`/orders/${order.id}/checklist${query}`).set("Cookie", cookie).buffer(true).parse((r, done) => {
+        const chunks: Buffer[] = [];
+        r.on("data", (c: Buffer) => chunks.push(c));
+        r.on("end", () => done(null, Buffer.concat(chunks)));
+      });
+      expect(res.status).toBe(200);
+      expect(res.headers["content-type"]).toBe("application/pdf");
+      const file = join(work, `c${Math.random().toString(36).slice(2)}.pdf`);
+      writeFileSync(file, res.body as Buffer);
+      return execFileSync("pdftotext", ["-layout", file, "-"], { encoding: "utf8" }).replace(/\s+/g, " ");
+    };
+    const text = await pdfText(owner);
+    expect(text).toContain(`Order #${order.number} · handover checklist`);
+    for (const guest of guests) expect(text).toContain(`${guests.indexOf(guest) + 1}. ${guest}`);
+    expect(text).toContain("60 × Table number");
+    expect(text).toContain("2 × Welcome sign");
+    expect(text).toContain("counted ____ of 2");
+    expect(text).toContain("still to pay €560.00"); // 60 × €6.50 + 2 × €85.00, no deposit
+    expect(text).toContain("(continued)"); // 60 names run onto a second page
+    const planner = await pdfText(await signIn(server, shop.users.planner), "?paper=letter");
+    expect(planner).toContain("Guest 60");
+    expect(planner).not.toContain("still to pay");
+    expect((await request(server).get(`/orders/${order.id}/checklist?paper=a3`).set("Cookie", owner)).status).toBe(400);
+    const page = await request(server).get(`/orders/${order.id}`).set("Cookie", owner);
+    expect(page.text).toContain(`href="/orders/${order.id}/checklist"`);
   });
 });

@@ -48,6 +48,7 @@ const MATRIX: Record<string, Entry> = {
   "/calendar": { get: page("owner", "planner", "bookkeeper"), post: NO_ACTION },
   "/orders/new": { get: page("owner"), post: { ...page("owner"), owner: 400 } },
   "/orders/:orderId": { get: notFoundFor("owner", "planner", "bookkeeper"), post: { ...page("owner"), owner: 400 }, sample: `/orders/${MISSING}` },
+  "/orders/:orderId/checklist": { get: notFoundFor("owner", "planner", "bookkeeper"), post: NO_ACTION, sample: `/orders/${MISSING}/checklist` },
   "/orders/:orderId/files/:fileId": { get: notFoundFor("owner", "planner", "bookkeeper"), post: NO_ACTION, sample: `/orders/${MISSING}/files/${MISSING}` },
   "/customers": { get: page("owner", "planner", "bookkeeper"), post: NO_ACTION },
   "/customers/new": { get: page("owner"), post: { ...page("owner"), owner: 400 } },
