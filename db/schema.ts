@@ -46,6 +46,8 @@ export const shops = pgTable("shops", {
   name: text("name").notNull(),
   displayUnit: unitEnum("display_unit").notNull().default("mm"),
   currency: text("currency").notNull().default("EUR"),
+  // The shop's clock (an IANA zone): which day "today" is, and the times people read. The ledger's days and months stay UTC.
+  timeZone: text("time_zone").notNull().default("UTC"),
   kerfUm: integer("kerf_um").notNull().default(3200),
   edgeTrimUm: integer("edge_trim_um").notNull().default(10000),
   minOffcutShortUm: integer("min_offcut_short_um").notNull().default(100000),

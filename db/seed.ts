@@ -62,7 +62,7 @@ export async function seedDemo(db: Database, today = new Date()): Promise<void> 
   await db.transaction(async (tx) => {
     const [shop] = await tx
       .insert(t.shops)
-      .values({ name: "Tallowmere Sign & Keepsake", currency: "GBP", displayUnit: "mm", depositRule: "percent", depositPercent: 30 })
+      .values({ name: "Tallowmere Sign & Keepsake", currency: "GBP", displayUnit: "mm", timeZone: "Europe/London", depositRule: "percent", depositPercent: 30 })
       .returning();
 
     const [owner] = await tx
@@ -289,7 +289,7 @@ export const SECOND_SHOP_OWNER = { email: "owner@harrowgate.example", name: "Per
 export async function seedSecondShop(db: Database): Promise<void> {
   const passwordHash = await hashPassword(DEMO_PASSWORD);
   await db.transaction(async (tx) => {
-    const [shop] = await tx.insert(t.shops).values({ name: "Harrowgate Plaque Co.", currency: "GBP", displayUnit: "in" }).returning();
+    const [shop] = await tx.insert(t.shops).values({ name: "Harrowgate Plaque Co.", currency: "GBP", displayUnit: "in", timeZone: "Europe/London" }).returning();
     await tx.insert(t.users).values({ id: generateIdFromEntropySize(10), shopId: shop.id, passwordHash, ...SECOND_SHOP_OWNER });
     const [oak] = await tx.insert(t.materials).values({ shopId: shop.id, name: "Oak-veneer MDF 12 mm", kind: "mdf", thicknessUm: mm(12) }).returning();
     await tx.insert(t.stockPanels).values({ shopId: shop.id, materialId: oak.id, lengthUm: mm(2440), widthUm: mm(1220), costMinor: 6400, onHand: 2, grain: "length" });

@@ -23,7 +23,7 @@ const TONE: Record<DepositStatus, string> = {
 
 
 /** The order's deposit: what was asked, paid and refunded, the balance due, and the owner's actions. */
-export function DepositPanel({ view, order, currency, canWrite }: { view: DepositView; order: { status: string; totalMinor: number }; currency: string; canWrite: boolean }) {
+export function DepositPanel({ view, order, currency, canWrite, timeZone }: { view: DepositView; order: { status: string; totalMinor: number }; currency: string; canWrite: boolean; timeZone: string }) {
   const { deposit } = view;
   const money = (minor: number) => formatMoney(minor, currency);
   const open = order.status !== "draft" && order.status !== "cancelled" && order.status !== "delivered";
@@ -43,9 +43,9 @@ export function DepositPanel({ view, order, currency, canWrite }: { view: Deposi
       </div>
       {deposit && (
         <dl className="grid grid-cols-2 gap-x-6 gap-y-2 text-sm sm:grid-cols-4">
-          <Figure label={`Asked ${formatDay(deposit.requestedAt)}`} value={money(deposit.amountMinor)} />
-          <Figure label={deposit.paidAt ? `Paid ${formatDay(deposit.paidAt)}` : "Paid"} value={money(view.paidMinor)} />
-          <Figure label={deposit.refundedAt ? `Refunded ${formatDay(deposit.refundedAt)}` : "Refunded"} value={money(view.refundedMinor)} />
+          <Figure label={`Asked ${formatDay(deposit.requestedAt, timeZone)}`} value={money(deposit.amountMinor)} />
+          <Figure label={deposit.paidAt ? `Paid ${formatDay(deposit.paidAt, timeZone)}` : "Paid"} value={money(view.paidMinor)} />
+          <Figure label={deposit.refundedAt ? `Refunded ${formatDay(deposit.refundedAt, timeZone)}` : "Refunded"} value={money(view.refundedMinor)} />
           <Figure label="Balance due" value={money(view.balanceMinor)} strong testId="balance-due" />
         </dl>
       )}

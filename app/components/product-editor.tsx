@@ -8,7 +8,6 @@ import { Field, FormAlert, SubmitButton } from "./forms";
 import { PageHeader } from "./page-header";
 import { allRows, openEditorKeepingKeys, PartsGrid } from "./parts-grid";
 import { PART_FIELD_LABELS, validatePartRows, type PartContext, type PartField, type PartRow, type ProductResult, type ProductValues, type RowErrors } from "~/lib/catalogue";
-import { formatDay } from "~/lib/dates";
 
 export type ProductEditorProps = {
   productId: string | null;
@@ -16,8 +15,8 @@ export type ProductEditorProps = {
   currency: string;
   materials: { id: string; name: string }[];
   parts: PartContext;
-  /** When the product was retired (ISO), or null while it is offered. */
-  retiredAt: string | null;
+  /** The day the product was retired ("2 Dec 2026", where the shop is), or null while it is offered. */
+  retiredOn: string | null;
   /** Order lines and orders naming the product; null for a new one. */
   use: { lines: number; orders: number } | null;
   canWrite: boolean;
@@ -36,7 +35,7 @@ export function ProductEditor(props: ProductEditorProps) {
   return <Editor key={props.result?.stamp ?? "loaded"} {...props} />;
 }
 
-function Editor({ productId, values, currency, materials, parts: ctx, retiredAt, use, canWrite, result }: ProductEditorProps) {
+function Editor({ productId, values, currency, materials, parts: ctx, retiredOn, use, canWrite, result }: ProductEditorProps) {
   const [params] = useSearchParams();
   const rejected = result && !result.ok ? result : undefined;
   const shown = rejected?.values ?? values ?? { name: "", price: "", leadTime: "", parts: [] };
@@ -115,9 +114,9 @@ function Editor({ productId, values, currency, materials, parts: ctx, retiredAt,
       {!result && params.get("created") && <FormAlert tone="ok">Product created.</FormAlert>}
       {errors.form && <FormAlert>{errors.form}</FormAlert>}
       {!canWrite && <FormAlert tone="warn">Read only: only the owner changes the catalogue.</FormAlert>}
-      {retiredAt && (
+      {retiredOn && (
         <FormAlert tone="warn">
-          Retired on {formatDay(retiredAt)}: new orders do not offer it. The orders that have it keep it.
+          Retired on {retiredOn}: new orders do not offer it. The orders that have it keep it.
         </FormAlert>
       )}
 
@@ -186,7 +185,7 @@ function Editor({ productId, values, currency, materials, parts: ctx, retiredAt,
         </section>
         {canWrite && <SubmitButton pendingText="Saving…">{productId ? "Save product" : "Create product"}</SubmitButton>}
       </Form>
-      {productId && use && <ProductLife retired={Boolean(retiredAt)} use={use} canWrite={canWrite} />}
+      {productId && use && <ProductLife retired={Boolean(retiredOn)} use={use} canWrite={canWrite} />}
     </div>
   );
 }

@@ -15,8 +15,42 @@ export function addDays(isoDate: string, days: number): string {
   return date.toISOString().slice(0, 10);
 }
 
-export function todayIso(now = new Date()): string {
-  return now.toISOString().slice(0, 10);
+// Formatters per time zone and style, made once: Intl formatters are slow to build.
+const formatters = new Map<string, Intl.DateTimeFormat>();
+function formatter(timeZone: string, style: "iso" | "day" | "moment"): Intl.DateTimeFormat {
+  const key = `${style} ${timeZone}`;
+  let f = formatters.get(key);
+  if (!f) {
+    const options: Record<typeof style, Intl.DateTimeFormatOptions> = {
+      iso: { year: "numeric", month: "2-digit", day: "2-digit" },
+      day: { day: "numeric", month: "short", year: "numeric" },
+      moment: { day: "numeric", month: "short", year: "numeric", hour: "2-digit", minute: "2-digit", hourCycle: "h23", timeZoneName: "short" },
+    };
+    f = new Intl.DateTimeFormat(style === "iso" ? "en-CA" : "en-GB", { ...options[style], timeZone });
+    formatters.set(key, f);
+  }
+  return f;
+}
+
+/** Today's date where the shop is (its time zone; UTC unless set): a US shop's evening is still today. */
+export function todayIso(now = new Date(), timeZone = "UTC"): string {
+  return timeZone === "UTC" ? now.toISOString().slice(0, 10) : formatter(timeZone, "iso").format(now);
+}
+
+/** Whether a time zone name is one this server knows (IANA names, such as "Europe/London"). */
+export function isTimeZone(value: string): boolean {
+  if (value === "UTC") return true;
+  try {
+    new Intl.DateTimeFormat("en-GB", { timeZone: value });
+    return /^[A-Za-z_]+(\/[A-Za-z0-9_+-]+)+$/.test(value);
+  } catch {
+    return false;
+  }
+}
+
+/** The time zones a shop can choose from, UTC first, then by name. */
+export function timeZoneChoices(): string[] {
+  return ["UTC", ...Intl.supportedValuesOf("timeZone").filter((z) => z !== "UTC" && isTimeZone(z))];
 }
 
 const LONG = new Intl.DateTimeFormat("en-GB", { weekday: "short", day: "numeric", month: "short", year: "numeric", timeZone: "UTC" });
@@ -35,18 +69,14 @@ export function formatDate(isoDate: string): string {
   return text;
 }
 
-const DAY = new Intl.DateTimeFormat("en-GB", { day: "numeric", month: "short", year: "numeric", timeZone: "UTC" });
-
-/** "2 Dec 2026": the (UTC) day of an instant given as an ISO timestamp, such as when a deposit was paid. */
-export function formatDay(isoTimestamp: string): string {
-  return DAY.format(new Date(isoTimestamp));
+/** "2 Dec 2026": the day of an instant given as an ISO timestamp, such as when a deposit was paid, where the shop is. */
+export function formatDay(isoTimestamp: string, timeZone = "UTC"): string {
+  return formatter(timeZone, "day").format(new Date(isoTimestamp));
 }
 
-const MOMENT = new Intl.DateTimeFormat("en-GB", { day: "numeric", month: "short", year: "numeric", hour: "2-digit", minute: "2-digit", hourCycle: "h23", timeZone: "UTC" });
-
-/** "2 Dec 2026, 14:05 UTC": an instant to the minute, for histories. */
-export function formatMoment(isoTimestamp: string): string {
-  return `${MOMENT.format(new Date(isoTimestamp))} UTC`;
+/** "2 Dec 2026, 14:05 GMT": an instant to the minute where the shop is, with its zone's short name. */
+export function formatMoment(isoTimestamp: string, timeZone = "UTC"): string {
+  return formatter(timeZone, "moment").format(new Date(isoTimestamp));
 }
 
 /** Default due date: the longest lead time of the ordered products before the event (14 days when none says). */

@@ -31,6 +31,8 @@ export interface LineProgressInput {
   /** materials the planner holds the line back from */
   held: string[];
   recuts: LineRecut[];
+  /** the shop's, for the days it names (UTC unless given) */
+  timeZone?: string;
 }
 
 export interface ProgressItem {
@@ -42,7 +44,7 @@ export interface ProgressItem {
 
 const TONE: Record<BatchStatus, ProgressItem["tone"]> = { open: "wait", planned: "wait", released: "work", cut: "done", closed: "done" };
 
-function batchText(b: LineBatch): string {
+function batchText(b: LineBatch, timeZone: string): string {
   const code = batchCode(b.number);
   switch (b.status) {
     case "open":
@@ -50,10 +52,10 @@ function batchText(b: LineBatch): string {
     case "planned":
       return `in ${code}, planned, not at the saw yet`;
     case "released":
-      return b.releasedAt ? `at the saw in ${code} since ${formatDay(b.releasedAt)}` : `at the saw in ${code}`;
+      return b.releasedAt ? `at the saw in ${code} since ${formatDay(b.releasedAt, timeZone)}` : `at the saw in ${code}`;
     case "cut":
     case "closed":
-      return b.cutAt ? `cut in ${code} on ${formatDay(b.cutAt)}` : `cut in ${code}`;
+      return b.cutAt ? `cut in ${code} on ${formatDay(b.cutAt, timeZone)}` : `cut in ${code}`;
   }
 }
 
@@ -62,7 +64,7 @@ export function lineProgress(input: LineProgressInput): ProgressItem[] {
   if (input.orderStatus === "draft" || input.orderStatus === "cancelled") return [];
   const items: ProgressItem[] = input.materials.map((material) => {
     const batch = input.batches.find((b) => b.material === material);
-    if (batch) return { text: `${material}: ${batchText(batch)}`, tone: TONE[batch.status], batch: { id: batch.batchId, code: batchCode(batch.number) } };
+    if (batch) return { text: `${material}: ${batchText(batch, input.timeZone ?? "UTC")}`, tone: TONE[batch.status], batch: { id: batch.batchId, code: batchCode(batch.number) } };
     if (input.held.includes(material)) return { text: `${material}: held back from batches by the planner`, tone: "wait" };
     return { text: `${material}: in no batch yet`, tone: "wait" };
   });

@@ -1,6 +1,7 @@
 // The shop settings form: which lengths a shop sets, the sane range of each, and the one schema
 // that reads the form (typed lengths in the chosen unit, stored as micrometres).
 import * as v from "valibot";
+import { isTimeZone } from "./dates";
 import { CURRENCIES } from "./money";
 import { lengthInputValue, lengthSchema, mm, type LengthLimits } from "./length-fields";
 import { formatLength, type DisplayUnit } from "./units";
@@ -17,7 +18,7 @@ export type LengthSetting =
   | "stopMinUm"
   | "stopMaxUm";
 
-export type SettingsValues = Record<LengthSetting, number> & { displayUnit: DisplayUnit; currency: string; minOffcutAreaMm2: number; sledToleranceUmPerM: number };
+export type SettingsValues = Record<LengthSetting, number> & { displayUnit: DisplayUnit; currency: string; timeZone: string; minOffcutAreaMm2: number; sledToleranceUmPerM: number };
 
 type LengthField = { key: LengthSetting; label: string; hint: string; limits: LengthLimits };
 export type SettingsGroup = { title: string; about: string; lengths: LengthField[]; area?: boolean; sledTolerance?: boolean };
@@ -119,6 +120,7 @@ export function settingsFormValues(settings: SettingsValues): Record<string, str
   const values: Record<string, string> = {
     displayUnit: unit,
     currency: settings.currency,
+    timeZone: settings.timeZone,
     minOffcutAreaMm2: formatArea(settings.minOffcutAreaMm2, unit),
     sledToleranceUmPerM: formatErrorRateInput(settings.sledToleranceUmPerM, unit),
   };
@@ -145,6 +147,7 @@ export function settingsSchema(unit: DisplayUnit, current: SettingsValues) {
     v.object({
       displayUnit: v.picklist(["mm", "in"], "Choose millimetres or inches."),
       currency: v.picklist(Object.keys(CURRENCIES) as [string, ...string[]], "Choose one of the currencies."),
+      timeZone: v.pipe(v.string("Choose the shop's time zone."), v.check(isTimeZone, "Choose the shop's time zone from the list.")),
       minOffcutAreaMm2: shownOrRead("Enter an area.", shownArea, current.minOffcutAreaMm2, (text) => {
         const read = readArea(text, unit);
         return read.ok ? read.mm2 : read;

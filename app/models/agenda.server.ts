@@ -80,7 +80,7 @@ async function unpaidDeposits(shopId: string) {
 }
 
 export async function shopAgenda(shopId: string, role: Role, now = new Date()): Promise<AgendaFacts> {
-  const today = todayIso(now);
+  const today = todayIso(now, (await getShop(shopId)).timeZone);
   const skip = Promise.resolve(undefined);
   const [due, drafts, ready, lines, unfinished, sleds, deposit, out] = await Promise.all([
     can(role, "orders:read") ? dueSoon(shopId, addDays(today, DUE_SOON_DAYS)) : skip,

@@ -6,7 +6,7 @@ import { lineProgress, type LineBatch, type LineRecut, type ProgressItem } from 
 import type { OrderStatus } from "~/lib/order-status";
 
 /** Where each line of an order is in the shop (see lib/line-progress), by line id; the reads run side by side. */
-export async function orderProgress(shopId: string, order: { id: string; status: OrderStatus; lines: { id: string }[] }): Promise<Record<string, ProgressItem[]>> {
+export async function orderProgress(shopId: string, order: { id: string; status: OrderStatus; lines: { id: string }[] }, timeZone = "UTC"): Promise<Record<string, ProgressItem[]>> {
   const lineIds = order.lines.map((l) => l.id);
   if (lineIds.length === 0 || order.status === "draft" || order.status === "cancelled") return {};
   const db = getDb();
@@ -53,6 +53,7 @@ export async function orderProgress(shopId: string, order: { id: string; status:
       batches: lineBatches,
       held: held.filter((h) => h.lineId === lineId).map((h) => h.material),
       recuts: lineRecuts,
+      timeZone,
     });
   }
   return byLine;

@@ -1,5 +1,6 @@
 // Loader and action of the product editor, shared by /catalogue/products/new and /catalogue/products/:id.
 import * as v from "valibot";
+import { formatDay } from "~/lib/dates";
 import { data, redirect, type RouterContextProvider } from "react-router";
 import { hasPermission, requirePermission } from "~/auth.server";
 import { parsePartsJson, productSchema, validatePartRows, type PartContext, type PartRow, type ProductResult, type ProductValues, type RowErrors } from "~/lib/catalogue";
@@ -60,7 +61,7 @@ export async function productEditorLoader(args: Args) {
     currency: ctx.shop.currency,
     materials: ctx.materials,
     parts: partContext(ctx, product),
-    retiredAt: product?.retiredAt?.toISOString() ?? null,
+    retiredOn: product?.retiredAt ? formatDay(product.retiredAt.toISOString(), ctx.shop.timeZone) : null,
     use,
     canWrite: hasPermission(user.role, "catalogue:write"),
   };

@@ -11,13 +11,14 @@ import { parseForm } from "~/lib/forms";
 import { batchCode, batchesToList } from "~/lib/batches";
 import { can } from "~/lib/permissions";
 import { createBatches, listBatches, listHeldLines, proposalPreviews, releaseHold } from "~/models/batches.server";
+import { getShop } from "~/models/shops.server";
 import { timed } from "~/timing.server";
 
 export async function loader(args: Route.LoaderArgs) {
   const user = requirePermission(args, "batches:read");
   const url = new URL(args.request.url);
   const dueByParam = url.searchParams.get("dueBy") ?? "";
-  const dueBy = isIsoDate(dueByParam) ? dueByParam : addDays(todayIso(), 21);
+  const dueBy = isIsoDate(dueByParam) ? dueByParam : addDays(todayIso(new Date(), (await getShop(user.shopId)).timeZone), 21);
   const canWrite = can(user.role, "batches:write");
   const [all, proposals, held] = await timed("queries", () =>
     Promise.all([listBatches(user.shopId), canWrite ? proposalPreviews(user.shopId, dueBy) : [], canWrite ? listHeldLines(user.shopId) : []]),

@@ -5,11 +5,12 @@ import { PageHeader } from "~/components/page-header";
 import { entriesByDay, monthTitle, monthWeeks, parseMonth, shiftMonth, type DayEntry } from "~/lib/calendar";
 import { formatDate, todayIso } from "~/lib/dates";
 import { calendarOrders } from "~/models/calendar.server";
+import { getShop } from "~/models/shops.server";
 import { timed } from "~/timing.server";
 
 export async function loader(args: Route.LoaderArgs) {
   const user = requirePermission(args, "orders:read");
-  const today = todayIso();
+  const today = todayIso(new Date(), (await getShop(user.shopId)).timeZone);
   const month = parseMonth(new URL(args.request.url).searchParams.get("month"), today);
   const weeks = monthWeeks(month);
   const orders = await timed("queries", () => calendarOrders(user.shopId, weeks[0][0], weeks[weeks.length - 1][6]));

@@ -49,7 +49,7 @@ export async function loader(args: Route.LoaderArgs) {
       seesDeposits ? orderMoves(user.shopId, order.id) : [],
       canWrite && paymentsConfigured() ? proposedDeposit(user.shopId, order.id) : null,
       orderHistory(user.shopId, order.id, { deposits: seesDeposits }),
-      orderProgress(user.shopId, order),
+      getShop(user.shopId).then((s) => orderProgress(user.shopId, order, s.timeZone)),
     ]),
   );
   const depositView = seesDeposits
@@ -68,7 +68,7 @@ export async function loader(args: Route.LoaderArgs) {
       }
     : null;
   // The customer picker gets the first few by name; typing asks /api/customers for the rest.
-  return { order, currency: shop.currency, canWrite, products, customers, materialCost, deposits: depositView, history, progress };
+  return { order, currency: shop.currency, canWrite, products, customers, materialCost, deposits: depositView, history, progress, timeZone: shop.timeZone };
 }
 
 const ActionSchema = v.variant("intent", [
@@ -208,7 +208,7 @@ const MOVE_LABELS: Partial<Record<string, string>> = {
 };
 
 export default function OrderPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { order, currency, canWrite, products, customers, materialCost, deposits, history, progress } = loaderData;
+  const { order, currency, canWrite, products, customers, materialCost, deposits, history, progress, timeZone } = loaderData;
   const depositRefusal = deposits?.proposedMinor ? unchargeableDeposit(deposits.proposedMinor, currency) : null;
   const errors: Record<string, string> = actionData?.errors ?? {};
   // The customers a refused header form matched: its picker suggests them.
@@ -238,7 +238,7 @@ export default function OrderPage({ loaderData, actionData }: Route.ComponentPro
         <div className="rounded-lg border border-line bg-card p-4" data-testid="confirmation">
           {order.confirmationSentAt ? (
             <p className="text-ok">
-              Confirmation e-mailed to {order.customerEmail} on {new Date(order.confirmationSentAt).toUTCString()}.
+              Confirmation e-mailed to {order.customerEmail} on {formatMoment(new Date(order.confirmationSentAt).toISOString(), timeZone)}.
             </p>
           ) : (
             <div className="flex flex-wrap items-center justify-between gap-3">
@@ -258,7 +258,7 @@ export default function OrderPage({ loaderData, actionData }: Route.ComponentPro
         <div className="flex flex-wrap items-center justify-between gap-3 rounded-lg border border-line bg-card p-4" data-testid="ready-notice">
           <p className={order.readyNoticeSentAt ? "text-ok" : "text-muted"}>
             {order.readyNoticeSentAt
-              ? `The customer was told it is ready: e-mailed to ${order.customerEmail} on ${new Date(order.readyNoticeSentAt).toUTCString()}.`
+              ? `The customer was told it is ready: e-mailed to ${order.customerEmail} on ${formatMoment(new Date(order.readyNoticeSentAt).toISOString(), timeZone)}.`
               : order.customerEmail
                 ? "The customer has not been told it is ready."
                 : "The customer has no e-mail address to tell them it is ready."}
@@ -279,7 +279,7 @@ export default function OrderPage({ loaderData, actionData }: Route.ComponentPro
         </div>
       )}
 
-      {deposits && <DepositPanel view={deposits} order={order} currency={currency} canWrite={canWrite} />}
+      {deposits && <DepositPanel view={deposits} order={order} currency={currency} canWrite={canWrite} timeZone={timeZone} />}
 
       {canWrite && nextStatuses(order.status).length > 0 && (
         <div className="space-y-2">
@@ -420,7 +420,7 @@ export default function OrderPage({ loaderData, actionData }: Route.ComponentPro
         </details>
       )}
 
-      <OrderHistory entries={history} />
+      <OrderHistory entries={history} timeZone={timeZone} />
 
       <p>
         <Link to="/orders" className="text-edge underline">
@@ -454,8 +454,8 @@ function LineProgress({ items }: { items: ProgressItem[] }) {
   );
 }
 
-/** What was done to the order, newest first: who did it and when (UTC, as the other times here). */
-function OrderHistory({ entries }: { entries: { id: string; at: string; actor: string | null; text: string }[] }) {
+/** What was done to the order, newest first: who did it and when, on the shop's clock. */
+function OrderHistory({ entries, timeZone }: { entries: { id: string; at: string; actor: string | null; text: string }[]; timeZone: string }) {
   if (entries.length === 0) return null;
   return (
     <details className="rounded-lg border border-line bg-card p-4" data-testid="order-history">
@@ -467,7 +467,7 @@ function OrderHistory({ entries }: { entries: { id: string; at: string; actor: s
           .map((e) => (
             <li key={e.id} className="grid gap-x-4 text-sm sm:grid-cols-[11rem_1fr]">
               <time dateTime={e.at} className="tabular-nums text-muted">
-                {formatMoment(e.at)}
+                {formatMoment(e.at, timeZone)}
               </time>
               <span>
                 {e.text}

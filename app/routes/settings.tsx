@@ -8,6 +8,7 @@ import { DEPOSIT_RULE_LABELS, DEPOSIT_RULES, depositFormValues, depositRuleSchem
 import { CURRENCIES, isCurrency } from "~/lib/money";
 import { DISPLAY_UNITS, formatArea, formatSetting, formUnit, SETTINGS_GROUPS, settingsFormValues, settingsSchema, type SettingsValues } from "~/lib/shop-settings";
 import { formatErrorRate } from "~/lib/sled";
+import { timeZoneChoices } from "~/lib/dates";
 import { getShop } from "~/models/shops.server";
 import { updateShopSettings } from "~/models/settings.server";
 import { paymentsConfigured } from "~/payments.server";
@@ -18,7 +19,8 @@ export async function loader(args: Route.LoaderArgs) {
   const user = requirePermission(args, "settings:read");
   const shop = await getShop(user.shopId);
   const settings: Settings = shop;
-  return { settings, canWrite: hasPermission(user.role, "settings:write"), paymentsReady: paymentsConfigured() };
+  // The server's list of zones, so the page does not depend on the browser's.
+  return { settings, canWrite: hasPermission(user.role, "settings:write"), paymentsReady: paymentsConfigured(), timeZones: timeZoneChoices() };
 }
 
 export async function action(args: Route.ActionArgs) {
@@ -39,7 +41,7 @@ export async function action(args: Route.ActionArgs) {
 }
 
 export default function Settings({ loaderData }: Route.ComponentProps) {
-  const { settings, canWrite, paymentsReady } = loaderData;
+  const { settings, canWrite, paymentsReady, timeZones } = loaderData;
   const actionData = useActionData<typeof action>();
   return (
     <div className="space-y-8">
@@ -48,14 +50,14 @@ export default function Settings({ loaderData }: Route.ComponentProps) {
           ? "Units, money and the limits of the saw and laser that every plan allows for. Type lengths in the shop's unit, or name one (600 mm, 23 5/8\")."
           : "Units, money and the limits of the saw and laser that every plan allows for. Only the owner can change them."}
       </PageHeader>
-      {canWrite ? <SettingsForm settings={settings} actionData={actionData} paymentsReady={paymentsReady} /> : <SettingsReadOnly settings={settings} />}
+      {canWrite ? <SettingsForm settings={settings} actionData={actionData} paymentsReady={paymentsReady} timeZones={timeZones} /> : <SettingsReadOnly settings={settings} />}
     </div>
   );
 }
 
 type SettingsResult = { ok: boolean; errors: Record<string, string>; values: Record<string, string> | null };
 
-function SettingsForm({ settings, actionData, paymentsReady }: { settings: Settings; actionData: SettingsResult | undefined; paymentsReady: boolean }) {
+function SettingsForm({ settings, actionData, paymentsReady, timeZones }: { settings: Settings; actionData: SettingsResult | undefined; paymentsReady: boolean; timeZones: string[] }) {
   const errors = actionData?.errors ?? {};
   // A rejected form comes back exactly as typed; otherwise the stored values, formatted.
   const values = actionData?.values ?? { ...settingsFormValues(settings), ...depositFormValues(settings, settings.currency) };
@@ -81,6 +83,14 @@ function SettingsForm({ settings, actionData, paymentsReady }: { settings: Setti
             </option>
           ))}
         </SelectField>
+        <SelectField label="Time zone" name="timeZone" defaultValue={values.timeZone} error={errors.timeZone}>
+          {timeZones.map((z) => (
+            <option key={z} value={z}>
+              {z.replaceAll("_", " ")}
+            </option>
+          ))}
+        </SelectField>
+        <p className="self-end text-sm text-muted">Which day is today for due dates and the calendar, and the times shown. The ledger counts days and months in UTC.</p>
         <p className="text-sm text-muted md:col-span-2">A bare number below is read in the unit chosen here ({unitWord} now).</p>
       </section>
 
@@ -149,7 +159,7 @@ function SettingsReadOnly({ settings }: { settings: Settings }) {
   return (
     <div className="space-y-6" data-testid="settings-read-only">
       <FormAlert tone="warn">Read only: these are set by the shop's owner.</FormAlert>
-      <ReadOnlyGroup title="Units and money" rows={[["Lengths are shown in", unit], ["Currency", settings.currency], ["Deposit on confirmation", describeRule(settings, settings.currency)]]} />
+      <ReadOnlyGroup title="Units and money" rows={[["Lengths are shown in", unit], ["Currency", settings.currency], ["Time zone", settings.timeZone.replaceAll("_", " ")], ["Deposit on confirmation", describeRule(settings, settings.currency)]]} />
       {SETTINGS_GROUPS.map((group) => (
         <ReadOnlyGroup
           key={group.title}

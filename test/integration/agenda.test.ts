@@ -1,5 +1,6 @@
 // The home page's list of what is waiting, against a real database: what counts as due soon, in no
 // batch, at the saw, a sled to check or a deposit unpaid, what each role is shown, and no other shop's work.
+import { eq } from "drizzle-orm";
 import request from "supertest";
 import { beforeAll, describe, expect, it } from "vitest";
 import * as t from "../../db/schema";
@@ -137,5 +138,16 @@ describe("what is waiting on the shop", () => {
     expect(floor).toContain("1 batch at the saw");
     expect(floor).not.toContain("draft order");
     expect(floor).not.toContain("deposit asked");
+  });
+});
+
+describe("the shop's day", () => {
+  it("is counted where the shop is: a New York evening is still that day", async () => {
+    const ny = await createShop("Agenda NY");
+    await getDb().update(t.shops).set({ timeZone: "America/New_York" }).where(eq(t.shops.id, ny.id));
+    const evening = new Date("2027-03-10T03:00:00Z"); // 22:00 on 9 March in New York (UTC−5 until 14 March, IANA rules)
+    expect((await shopAgenda(ny.id, "owner", evening)).today).toBe("2027-03-09");
+    const utc = await createShop("Agenda UTC");
+    expect((await shopAgenda(utc.id, "owner", evening)).today).toBe("2027-03-10");
   });
 });

@@ -7,6 +7,8 @@ import { createShop, signIn } from "../support/factories";
 import { getDb } from "~/db.server";
 import { depositFormValues } from "~/lib/deposits";
 import { settingsFormValues } from "~/lib/shop-settings";
+import { createOrder } from "~/models/orders.server";
+import { createCatalogue } from "../support/order-factories";
 
 const server = await appServer();
 
@@ -117,6 +119,28 @@ describe("shop settings", () => {
     expect(await stored(shop.id)).toEqual(before);
     // The sled page judges checks by it.
     expect(visible((await request(server).get("/sleds").set("Cookie", owner)).text)).toContain("tolerance (0.250 mm per metre)");
+  });
+
+  it("sets the shop's time zone, and the order page tells its times on that clock; an unknown zone is refused on its field", async () => {
+    const shop = await createShop("Settings");
+    const owner = await signIn(server, shop.users.owner);
+    const bad = await request(server).post("/settings").set("Cookie", owner).type("form").send(await form(shop.id, { timeZone: "Mars/Olympus" }));
+    expect(bad.status).toBe(400);
+    expect(visible(bad.text)).toContain("Choose the shop's time zone from the list.");
+    expect((await stored(shop.id)).timeZone).toBe("UTC");
+    const saved = await request(server).post("/settings").set("Cookie", owner).type("form").send(await form(shop.id, { timeZone: "America/New_York" }));
+    expect(saved.status).toBe(200);
+    expect((await stored(shop.id)).timeZone).toBe("America/New_York");
+    const page = await request(server).get("/settings").set("Cookie", owner);
+    expect(page.text).toMatch(/<option value="America\/New_York" selected="">America\/New York<\/option>/);
+
+    const cat = await createCatalogue(shop.id);
+    const order = await createOrder(shop.id, { customerId: cat.customer.id, eventDate: "2027-03-20", dueDate: "2027-03-06", notes: "" }, [{ productId: cat.sign.id, quantity: 1, personalisation: [], notes: "", files: [] }], {
+      by: shop.users.owner.id,
+      at: new Date("2027-03-10T03:00:00Z"),
+    });
+    const history = visible((await request(server).get(`/orders/${order.id}`).set("Cookie", owner)).text);
+    expect(history).toContain("9 Mar 2027, 22:00 GMT-5"); // 03:00 UTC on the 10th is the evening of the 9th in New York
   });
 
   it("checks the stop range even when every other field is fine", async () => {

@@ -82,6 +82,7 @@ describe("settings schema", () => {
   const stored: SettingsValues = {
     displayUnit: "mm",
     currency: "EUR",
+    timeZone: "Europe/London",
     sledToleranceUmPerM: 150,
     kerfUm: 3200,
     edgeTrimUm: 10_000,
@@ -100,6 +101,14 @@ describe("settings schema", () => {
     expect(v.parse(settingsSchema("mm", stored), settingsFormValues(stored))).toEqual(stored);
     const inches = { ...stored, displayUnit: "in" as const };
     expect(v.parse(settingsSchema("in", inches), settingsFormValues(inches))).toEqual(inches);
+  });
+
+  it("takes a known time zone and names the field for any other", () => {
+    expect(v.parse(settingsSchema("mm", stored), { ...settingsFormValues(stored), timeZone: "America/Argentina/Buenos_Aires" }).timeZone).toBe("America/Argentina/Buenos_Aires");
+    for (const bad of ["Mars/Olympus", "", "Europe/London; drop", "+01:00"]) {
+      const result = v.safeParse(settingsSchema("mm", stored), { ...settingsFormValues(stored), timeZone: bad });
+      expect(result.issues?.map((i) => [v.getDotPath(i), i.message])).toEqual([["timeZone", "Choose the shop's time zone from the list."]]);
+    }
   });
 
   it("refuses a stop range that is empty or backwards", () => {
