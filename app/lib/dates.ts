@@ -17,16 +17,17 @@ export function addDays(isoDate: string, days: number): string {
 
 // Formatters per time zone and style, made once: Intl formatters are slow to build.
 const formatters = new Map<string, Intl.DateTimeFormat>();
-function formatter(timeZone: string, style: "iso" | "day" | "moment"): Intl.DateTimeFormat {
+function formatter(timeZone: string, style: "iso" | "stamp" | "day" | "moment"): Intl.DateTimeFormat {
   const key = `${style} ${timeZone}`;
   let f = formatters.get(key);
   if (!f) {
     const options: Record<typeof style, Intl.DateTimeFormatOptions> = {
       iso: { year: "numeric", month: "2-digit", day: "2-digit" },
+      stamp: { year: "numeric", month: "2-digit", day: "2-digit", hour: "2-digit", minute: "2-digit", second: "2-digit", hourCycle: "h23" },
       day: { day: "numeric", month: "short", year: "numeric" },
       moment: { day: "numeric", month: "short", year: "numeric", hour: "2-digit", minute: "2-digit", hourCycle: "h23", timeZoneName: "short" },
     };
-    f = new Intl.DateTimeFormat(style === "iso" ? "en-CA" : "en-GB", { ...options[style], timeZone });
+    f = new Intl.DateTimeFormat(style === "iso" || style === "stamp" ? "en-CA" : "en-GB", { ...options[style], timeZone });
     formatters.set(key, f);
   }
   return f;
@@ -35,6 +36,11 @@ function formatter(timeZone: string, style: "iso" | "day" | "moment"): Intl.Date
 /** Today's date where the shop is (its time zone; UTC unless set): a US shop's evening is still today. */
 export function todayIso(now = new Date(), timeZone = "UTC"): string {
   return timeZone === "UTC" ? now.toISOString().slice(0, 10) : formatter(timeZone, "iso").format(now);
+}
+
+/** An instant as the shop's wall clock reads it, "2026-12-02T17:20:05" (sorts as text; no zone): for counting days and months where the shop is. */
+export function localStamp(date: Date, timeZone = "UTC"): string {
+  return timeZone === "UTC" ? date.toISOString().slice(0, 19) : formatter(timeZone, "stamp").format(date).replace(", ", "T");
 }
 
 /** Whether a time zone name is one this server knows (IANA names, such as "Europe/London"). */

@@ -85,13 +85,13 @@ export function spreadsheetSafe(text: string): string {
 }
 
 /** The period's batch rows as CSV; the first lines state the currency and the area unit. */
-export function ledgerCsv(rows: (Row & { batchCode: string; cutAt: string })[], period: Period, currency: string, unit: "mm" | "in", digits = 2): string {
+export function ledgerCsv(rows: (Row & { batchCode: string; cutDay: string })[], period: Period, currency: string, unit: "mm" | "in", digits = 2): string {
   const areaUnit = unit === "mm" ? "m2" : "ft2";
   const body = Papa.unparse({
     fields: ["batch", "cut_on", "material", `stock_${areaUnit}`, `parts_${areaUnit}`, `kerf_${areaUnit}`, `offcuts_racked_${areaUnit}`, `scrap_${areaUnit}`, "yield_percent", "spoiled_parts", `cost_drawn_${currency}`, `value_returned_${currency}`, `net_cost_${currency}`, `scrap_cost_${currency}`, `spoiled_cost_${currency}`],
     data: rows.map((r) => [
       r.batchCode,
-      r.cutAt.slice(0, 10),
+      r.cutDay,
       // Formula triggers are defused (OWASP ASVS 5.0 V1.2.10): a name never runs as a spreadsheet formula.
       spreadsheetSafe(r.materialName),
       areaNumber(r.stockAreaMm2, unit),

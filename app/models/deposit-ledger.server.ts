@@ -1,19 +1,22 @@
 import { and, eq, gte, inArray, lt, or, sql } from "drizzle-orm";
 import { customers, depositMoves, deposits, orders } from "../../db/schema";
 import { getDb } from "~/db.server";
-import { todayIso } from "~/lib/dates";
+import { localStamp, todayIso } from "~/lib/dates";
 import { depositMonths, depositOrderRows, totalsOf } from "~/lib/deposit-ledger";
 import { parsePeriod } from "~/lib/ledger-report";
 import { orderTotal } from "./deposits.server";
+import { getShop } from "./shops.server";
 
 
-/** Everything the deposits ledger page and its CSV show for a period (default: this month). */
+/** Everything the deposits ledger page and its CSV show for a period (default: this month), its days and months on the shop's clock. */
 export async function depositLedger(shopId: string, params: URLSearchParams) {
   const db = getDb();
-  const today = todayIso();
+  const { timeZone } = await getShop(shopId);
+  const today = todayIso(new Date(), timeZone);
   const period = parsePeriod(params, today, "current");
-  const from = new Date(`${period.from}T00:00:00Z`);
-  const to = new Date(`${period.to}T00:00:00Z`);
+  const dayStart = (day: string) => sql`(${day}::timestamp at time zone ${timeZone})`;
+  const from = dayStart(period.from);
+  const to = dayStart(period.to);
   const movedInPeriod = db
     .select({ id: depositMoves.depositId })
     .from(depositMoves)
@@ -44,15 +47,15 @@ export async function depositLedger(shopId: string, params: URLSearchParams) {
         .from(depositMoves)
         .where(and(eq(depositMoves.shopId, shopId), inArray(depositMoves.depositId, rows.map((r) => r.depositId))))
     : [];
-  const month = sql<string>`to_char(${depositMoves.occurredAt} at time zone 'UTC', 'YYYY-MM')`;
+  const month = sql<string>`to_char(${depositMoves.occurredAt} at time zone ${timeZone}, 'YYYY-MM')`;
   const sums = await db
     .select({ month, kind: depositMoves.kind, amountMinor: sql<number>`sum(${depositMoves.amountMinor})::bigint` })
     .from(depositMoves)
-    .where(and(eq(depositMoves.shopId, shopId), gte(depositMoves.occurredAt, new Date(Date.UTC(+today.slice(0, 4), +today.slice(5, 7) - 12, 1)))))
-    .groupBy(month, depositMoves.kind);
+    .where(and(eq(depositMoves.shopId, shopId), gte(depositMoves.occurredAt, dayStart(`${depositMonths([], today.slice(0, 7))[0].month}-01`))))
+    .groupBy(sql`1`, depositMoves.kind); // by position: the zone is a parameter, so the month expression is not the same text twice
   const orderRows = depositOrderRows(
-    rows.map((r) => ({ ...r, orderTotalMinor: Number(r.orderTotalMinor), requestedAt: r.requestedAt.toISOString() })),
-    moves.map((m) => ({ ...m, occurredAt: m.occurredAt.toISOString() })),
+    rows.map((r) => ({ ...r, orderTotalMinor: Number(r.orderTotalMinor), requestedAt: localStamp(r.requestedAt, timeZone) })),
+    moves.map((m) => ({ ...m, occurredAt: localStamp(m.occurredAt, timeZone) })),
     period,
   );
   return {

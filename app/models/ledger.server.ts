@@ -1,6 +1,7 @@
-import { and, asc, eq, gte, lt, sql } from "drizzle-orm";
+import { and, asc, eq, sql } from "drizzle-orm";
 import { batchCosts, batches, materials } from "../../db/schema";
 import { getDb } from "~/db.server";
+import { todayIso } from "~/lib/dates";
 import type { LedgerFigures } from "~/lib/ledger";
 import { fillTrend, trendMonths, type TrendMonth } from "~/lib/ledger-trend";
 
@@ -26,14 +27,17 @@ const columns = {
   spoiledCostMinor: batchCosts.spoiledCostMinor,
 };
 
-/** The batches cut in [from, to) (UTC dates), oldest first. */
-export async function ledgerBatches(shopId: string, from: string, to: string): Promise<LedgerRow[]> {
+/** The start of an ISO day on the shop's clock, as PostgreSQL's instant. */
+const dayStart = (day: string, timeZone: string) => sql`(${day}::timestamp at time zone ${timeZone})`;
+
+/** The batches cut in [from, to) (days on the shop's clock), oldest first. */
+export async function ledgerBatches(shopId: string, from: string, to: string, timeZone = "UTC"): Promise<LedgerRow[]> {
   return getDb()
     .select(columns)
     .from(batchCosts)
     .innerJoin(batches, eq(batches.id, batchCosts.batchId))
     .innerJoin(materials, eq(materials.id, batchCosts.materialId))
-    .where(and(eq(batchCosts.shopId, shopId), gte(batchCosts.cutAt, new Date(`${from}T00:00:00Z`)), lt(batchCosts.cutAt, new Date(`${to}T00:00:00Z`))))
+    .where(and(eq(batchCosts.shopId, shopId), sql`${batchCosts.cutAt} >= ${dayStart(from, timeZone)}`, sql`${batchCosts.cutAt} < ${dayStart(to, timeZone)}`))
     .orderBy(asc(batchCosts.cutAt));
 }
 
@@ -47,19 +51,19 @@ export async function batchCostDetail(shopId: string, batchId: string) {
   return row ?? null;
 }
 
-/** Yield and scrap cost of each of the last `months` months (this one included), for the chart: sums in PostgreSQL, exact integers. */
-export async function monthlyTrend(shopId: string, now = new Date(), months = 12): Promise<TrendMonth[]> {
-  const shown = trendMonths(now, months);
+/** Yield and scrap cost of each of the last `months` months (this one included, on the shop's clock), for the chart: sums in PostgreSQL, exact integers. */
+export async function monthlyTrend(shopId: string, now = new Date(), months = 12, timeZone = "UTC"): Promise<TrendMonth[]> {
+  const shown = trendMonths(new Date(`${todayIso(now, timeZone)}T00:00:00Z`), months);
   const rows = await getDb()
     .select({
-      month: sql<string>`to_char(date_trunc('month', ${batchCosts.cutAt} at time zone 'UTC'), 'YYYY-MM')`,
+      month: sql<string>`to_char(${batchCosts.cutAt} at time zone ${timeZone}, 'YYYY-MM')`,
       stockAreaMm2: sql<string>`sum(${batchCosts.stockAreaMm2})`,
       partsAreaMm2: sql<string>`sum(${batchCosts.partsAreaMm2})`,
       scrapCostMinor: sql<string>`sum(${batchCosts.scrapCostMinor})`,
       batches: sql<number>`count(*)::int`,
     })
     .from(batchCosts)
-    .where(and(eq(batchCosts.shopId, shopId), gte(batchCosts.cutAt, new Date(`${shown[0]}-01T00:00:00Z`))))
+    .where(and(eq(batchCosts.shopId, shopId), sql`${batchCosts.cutAt} >= ${dayStart(`${shown[0]}-01`, timeZone)}`))
     .groupBy(sql`1`)
     .orderBy(sql`1`);
   const cut = rows.map((r) => ({ month: r.month, batches: r.batches, yield: Number(r.stockAreaMm2) > 0 ? Number(r.partsAreaMm2) / Number(r.stockAreaMm2) : 0, scrapCostMinor: Number(r.scrapCostMinor) }));

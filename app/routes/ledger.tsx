@@ -128,7 +128,7 @@ export default function Ledger({ loaderData }: Route.ComponentProps) {
                 <span>{b.materialName}</span>
               </span>
               <span className="flex flex-wrap items-baseline gap-x-4 gap-y-1">
-                <span className="text-sm text-muted">cut {formatDate(b.cutAt.slice(0, 10))}</span>
+                <span className="text-sm text-muted">cut {formatDate(b.cutDay)}</span>
                 <span className="tabular-nums">yield {(yieldOf(b) * 100).toFixed(1)} %</span>
                 <span className="tabular-nums">scrap {money(b.scrapCostMinor)}</span>
               </span>

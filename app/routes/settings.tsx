@@ -90,7 +90,7 @@ function SettingsForm({ settings, actionData, paymentsReady, timeZones }: { sett
             </option>
           ))}
         </SelectField>
-        <p className="self-end text-sm text-muted">Which day is today for due dates and the calendar, and the times shown. The ledger counts days and months in UTC.</p>
+        <p className="self-end text-sm text-muted">Which day is today for due dates, the calendar and the ledger's months, and the times shown.</p>
         <p className="text-sm text-muted md:col-span-2">A bare number below is read in the unit chosen here ({unitWord} now).</p>
       </section>
 

@@ -321,6 +321,30 @@ describe("deposits", () => {
     expect(visible((await request(server).get("/orders").set("Cookie", planner)).text)).not.toContain(">Deposit<");
   });
 
+  it("the deposits ledger counts a payment in the day and month on the shop's clock", async () => {
+    const ny = await createShop("Deposit books NY");
+    await db.update(t.shops).set({ timeZone: "America/New_York", currency: "USD" }).where(eq(t.shops.id, ny.id));
+    const c = await createCatalogue(ny.id);
+    const order = await createOrder(ny.id, { customerId: c.customer.id, eventDate: "2026-04-18", dueDate: "2026-04-04", notes: "" }, [{ productId: c.sign.id, quantity: 1, personalisation: [], notes: "", files: [] }]);
+    await db.update(t.orders).set({ status: "confirmed" }).where(eq(t.orders.id, order.id));
+    // Paid at 03:00 UTC on 1 March 2026: 22:00 on 28 February in New York (UTC−5 until 8 March, IANA rules).
+    const paidAt = new Date("2026-03-01T03:00:00Z");
+    const [deposit] = await db
+      .insert(t.deposits)
+      .values({ shopId: ny.id, orderId: order.id, amountMinor: 2550, currency: "USD", status: "paid", linkToken: `tz-${order.id}`, paymentIntentId: `pi_tz_${order.id}`, requestedAt: new Date("2026-02-27T15:00:00Z"), paidAt })
+      .returning();
+    await db.insert(t.depositMoves).values({ shopId: ny.id, depositId: deposit.id, kind: "payment", amountMinor: 2550, currency: "USD", eventId: `evt_tz_${order.id}`, providerRef: `pi_tz_${order.id}`, occurredAt: paidAt });
+    const feb = await depositLedger(ny.id, new URLSearchParams({ month: "2026-02" }));
+    expect(feb.orders.map((o) => [o.orderNumber, o.receivedInPeriodMinor])).toEqual([[order.number, 2550]]);
+    const march = await depositLedger(ny.id, new URLSearchParams({ month: "2026-03" }));
+    expect(march.orders).toEqual([]);
+    if (feb.months.some((m) => m.month === "2026-02")) {
+      // the last twelve months reach back to February 2026 until February 2027
+      expect(feb.months.find((m) => m.month === "2026-02")?.receivedMinor).toBe(2550);
+      expect(feb.months.find((m) => m.month === "2026-03")?.receivedMinor).toBe(0);
+    }
+  });
+
   it("the bookkeeper's deposits ledger lists each order's deposit and balance, per month, and its CSV parses back to the same figures", async () => {
     const fresh = await createShop("Deposit books");
     await db.update(t.shops).set({ depositRule: "fixed", depositFixedMinor: 5000, currency: "GBP" }).where(eq(t.shops.id, fresh.id));

@@ -156,3 +156,29 @@ describe("the ledger's areas on screen and in the CSV", () => {
     }
   });
 });
+
+describe("the ledger on the shop's clock", () => {
+  it("counts a batch cut on a New York evening in that day and month, on the page, in the CSV and in the trend", async () => {
+    const [a] = await db.select().from(t.batchCosts).where(eq(t.batchCosts.batchId, batchIds[0]));
+    // 03:00 UTC on 1 March 2026 is 22:00 on 28 February in New York (UTC−5 until 8 March, IANA rules).
+    await db.update(t.batchCosts).set({ cutAt: new Date("2026-03-01T03:00:00Z") }).where(eq(t.batchCosts.batchId, a.batchId));
+    await db.update(t.shops).set({ timeZone: "America/New_York" }).where(eq(t.shops.id, s.shop.id));
+    try {
+      const bookkeeper = await signIn(server, s.shop.users.bookkeeper);
+      const feb = (await request(server).get("/api/ledger?month=2026-02").set("Cookie", bookkeeper)).body;
+      expect(feb.batches.map((b: { batchId: string; cutDay: string }) => [b.batchId, b.cutDay])).toEqual([[a.batchId, "2026-02-28"]]);
+      expect((await request(server).get("/api/ledger?month=2026-03").set("Cookie", bookkeeper)).body.batches).toEqual([]);
+      const csv = (await request(server).get("/ledger.csv?month=2026-02").set("Cookie", bookkeeper)).text;
+      const [record] = parse(csv.split("\r\n").slice(1).join("\r\n"), { columns: true, skip_empty_lines: true }) as Record<string, string>[];
+      expect(Object.values(record)).toContain("2026-02-28");
+      const trend = await monthlyTrend(s.shop.id, new Date("2026-03-15T12:00:00Z"), 12, "America/New_York");
+      expect(trend.find((m) => m.month === "2026-02")?.batches).toBe(1);
+      expect(trend.find((m) => m.month === "2026-03")?.batches).toBe(0);
+      // On UTC the same batch is March's.
+      expect((await monthlyTrend(s.shop.id, new Date("2026-03-15T12:00:00Z"), 12)).find((m) => m.month === "2026-03")?.batches).toBe(1);
+    } finally {
+      await db.update(t.shops).set({ timeZone: "UTC" }).where(eq(t.shops.id, s.shop.id));
+      await db.update(t.batchCosts).set({ cutAt: a.cutAt }).where(eq(t.batchCosts.batchId, a.batchId));
+    }
+  });
+});
