@@ -1,7 +1,9 @@
 // The words of Stopwise's e-mails (plain text; links on their own lines so any mail client shows them).
+import { formatMoment } from "./dates";
 import type { Role } from "./permissions";
 
-export function invitationEmail(input: { shopName: string; inviterName: string; role: Role; link: string; expiresAt: Date }) {
+/** The expiry is told on the shop's clock (`timeZone`, UTC unless given). */
+export function invitationEmail(input: { shopName: string; inviterName: string; role: Role; link: string; expiresAt: Date; timeZone?: string }) {
   return {
     subject: `${input.inviterName} invites you to ${input.shopName} on Stopwise`,
     text: [
@@ -10,7 +12,7 @@ export function invitationEmail(input: { shopName: string; inviterName: string; 
       "Open this link to choose your name and password:",
       input.link,
       "",
-      `The link works once and until ${input.expiresAt.toUTCString()}.`,
+      `The link works once and until ${formatMoment(input.expiresAt.toISOString(), input.timeZone)}.`,
       "If you did not expect this, ignore this e-mail.",
     ].join("\n"),
   };

@@ -9,6 +9,7 @@ import { parseForm } from "~/lib/forms";
 import { EmailSchema } from "~/lib/password-policy";
 import { ROLES } from "~/lib/permissions";
 import { publicOrigin, sendMail } from "~/mail.server";
+import { getShop } from "~/models/shops.server";
 import { changeMember, createInvitation, emailInUse, LastOwnerError, listMembers, listOpenInvitations, OwnMembershipError, revokeInvitation } from "~/models/team.server";
 
 export async function loader(args: Route.LoaderArgs) {
@@ -40,10 +41,10 @@ export async function action(args: Route.ActionArgs) {
       if (await emailInUse(input.email)) {
         return data({ intent: input.intent, errors: { email: "This address already has a Stopwise account." }, notice: null }, { status: 400 });
       }
-      const { id, token, expiresAt } = await createInvitation(user.shopId, user.id, input.email, input.role);
+      const [{ id, token, expiresAt }, { timeZone }] = await Promise.all([createInvitation(user.shopId, user.id, input.email, input.role), getShop(user.shopId)]);
       const link = `${publicOrigin(args.request)}/invitation/${token}`;
       try {
-        await sendMail({ to: input.email, ...invitationEmail({ shopName: user.shopName, inviterName: user.name, role: input.role, link, expiresAt }) });
+        await sendMail({ to: input.email, ...invitationEmail({ shopName: user.shopName, inviterName: user.name, role: input.role, link, expiresAt, timeZone }) });
       } catch (error) {
         // No invitation without its e-mail: take it back so a retry starts clean.
         await revokeInvitation(user.shopId, id);

@@ -23,6 +23,9 @@ describe("invitations through the fake SMTP server", () => {
 
     const mail = await waitForMail(email);
     expect(mail.subject).toContain(shop.name);
+    const [invite] = await getDb().select().from(invitations).where(eq(invitations.email, email));
+    const until = new Intl.DateTimeFormat("en-GB", { day: "numeric", month: "short", year: "numeric", hour: "2-digit", minute: "2-digit", hourCycle: "h23", timeZone: "UTC" }).format(invite.expiresAt);
+    expect(mail.text).toContain(`The link works once and until ${until} UTC.`); // the shop's clock: a test shop is on UTC
     const link = linkIn(mail);
     expect(pathOf(link)).toMatch(/^\/invitation\/[A-Za-z0-9_-]{43}$/); // 32 random bytes
 

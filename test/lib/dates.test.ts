@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { formatDay, formatMoment, isTimeZone, timeZoneChoices, todayIso } from "~/lib/dates";
+import { invitationEmail } from "~/lib/emails";
 
 // 2026-12-03 03:30 UTC: still the evening of 2 December on the American east coast, and already the
 // afternoon of 3 December in Auckland (New York UTC−5 in winter, Auckland UTC+13 in summer: the IANA zone rules).
@@ -28,5 +29,13 @@ describe("the shop's clock", () => {
     expect(zones[0]).toBe("UTC");
     expect(zones).toContain("Europe/London");
     expect(zones.every(isTimeZone)).toBe(true);
+  });
+});
+
+describe("the invitation e-mail's expiry", () => {
+  it("is told on the shop's clock", () => {
+    const mail = (timeZone?: string) => invitationEmail({ shopName: "Tallowmere", inviterName: "Edda", role: "sawyer", link: "http://x/invitation/t", expiresAt: new Date("2027-07-01T12:00:00Z"), timeZone }).text;
+    expect(mail("Europe/London")).toContain("The link works once and until 1 Jul 2027, 13:00 BST.");
+    expect(mail()).toContain("The link works once and until 1 Jul 2027, 12:00 UTC.");
   });
 });
