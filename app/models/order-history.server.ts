@@ -43,18 +43,26 @@ export async function orderHistory(shopId: string, orderId: string, { deposits: 
       : [],
     withDeposits
       ? db
-          .select({ id: depositMoves.id, kind: depositMoves.kind, amountMinor: depositMoves.amountMinor, currency: depositMoves.currency, at: depositMoves.occurredAt, asked: deposits.requestedAt, actor: users.name })
+          .select({ id: depositMoves.id, depositId: depositMoves.depositId, kind: depositMoves.kind, amountMinor: depositMoves.amountMinor, currency: depositMoves.currency, at: depositMoves.occurredAt, asked: deposits.requestedAt, actor: users.name })
           .from(depositMoves)
           .innerJoin(deposits, eq(deposits.id, depositMoves.depositId))
           .leftJoin(users, eq(users.id, depositMoves.recordedBy))
           .where(and(eq(deposits.orderId, orderId), eq(depositMoves.shopId, shopId)))
       : [],
   ]);
+  // The service stamps money to the second, so within one second a payment could seem to come before
+  // its ask, or a refund before its payment: each deposit's story is kept in order (asked, paid, refunded).
+  const storyAt = (at: Date, after: Date) => (at < after ? after : at);
+  const lastOf = new Map<string, Date>(); // per deposit, the time of its story so far
+  const inOrder = [...moves].sort((a, b) => (a.kind === b.kind ? a.at.getTime() - b.at.getTime() : a.kind === "payment" ? -1 : 1));
   const told: { id: string; at: Date; actor: string | null; event: OrderEvent | null }[] = [
     ...rows.map((r) => ({ id: r.id, at: r.at, actor: r.actor, event: readOrderEvent(r.kind, r.detail) })),
     ...asked.map((d) => ({ id: d.id, at: d.at, actor: null, event: { kind: "deposit_asked", amountMinor: d.amountMinor, currency: d.currency } as const })),
-    // The service stamps a payment to the second; it never comes before its ask.
-    ...moves.map((m) => ({ id: m.id, at: m.at < m.asked ? m.asked : m.at, actor: m.actor, event: { kind: m.kind === "payment" ? "deposit_paid" : "deposit_refunded", amountMinor: m.amountMinor, currency: m.currency } as const })),
+    ...inOrder.map((m) => {
+      const at = storyAt(m.at, lastOf.get(m.depositId) ?? m.asked);
+      lastOf.set(m.depositId, at);
+      return { id: m.id, at, actor: m.actor, event: { kind: m.kind === "payment" ? "deposit_paid" : "deposit_refunded", amountMinor: m.amountMinor, currency: m.currency } as const };
+    }),
   ];
   return told
     .filter((e) => e.event !== null)

@@ -15,6 +15,7 @@ import { freePort, startApp } from "../support/server";
 import { getDb } from "~/db.server";
 import { depositLedger } from "~/models/deposit-ledger.server";
 import { createOrder } from "~/models/orders.server";
+import { orderHistory } from "~/models/order-history.server";
 
 const server = await appServer();
 const db = getDb();
@@ -319,6 +320,23 @@ describe("deposits", () => {
     expect(theirs.body.total).toBe(rows.length);
     expect(theirs.body.rows.every((r: { deposit: unknown }) => r.deposit === null)).toBe(true);
     expect(visible((await request(server).get("/orders").set("Cookie", planner)).text)).not.toContain(">Deposit<");
+  });
+
+  it("the history keeps a deposit's story in order when the service stamps it all within one second", async () => {
+    const order = await draftOrder();
+    const askedAt = new Date("2027-01-05T10:00:00.700Z");
+    const stamped = new Date("2027-01-05T10:00:00.000Z"); // the payment and its refund, to the second: before the ask
+    const [deposit] = await db
+      .insert(t.deposits)
+      .values({ shopId: shop.id, orderId: order.id, amountMinor: 6060, currency: "EUR", status: "refunded", linkToken: `story-${order.id}`, paymentIntentId: `pi_story_${order.id}`, requestedAt: askedAt, paidAt: stamped, refundedAt: stamped })
+      .returning();
+    await db.insert(t.depositMoves).values([
+      { shopId: shop.id, depositId: deposit.id, kind: "refund", amountMinor: 6060, currency: "EUR", providerRef: `re_story_${order.id}`, occurredAt: stamped, recordedBy: shop.users.owner.id },
+      { shopId: shop.id, depositId: deposit.id, kind: "payment", amountMinor: 6060, currency: "EUR", eventId: `evt_story_${order.id}`, providerRef: `pi_story_${order.id}`, occurredAt: stamped },
+    ]);
+    const told = (await orderHistory(shop.id, order.id, { deposits: true })).map((e) => e.text);
+    expect(told.slice(-3)).toEqual(["Asked a deposit of €60.60", "The customer paid €60.60 of the deposit", "Refunded €60.60 of the deposit"]);
+    expect(await orderHistory(shop.id, order.id)).toEqual([expect.objectContaining({ text: "Took the order, with 2 lines" })]); // without deposits: none of it
   });
 
   it("the deposits ledger counts a payment in the day and month on the shop's clock", async () => {
