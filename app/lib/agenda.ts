@@ -1,6 +1,7 @@
 // What is waiting on the shop, for the home page: one entry per kind of work, a few lines each, every
 // one linked to the place where the work is done. The model gathers only the facts a role may read
 // (the permission table decides), so a role sees only what it can act on or read.
+import { countOf } from "./plural";
 import { batchCode } from "./batches";
 import { formatDate } from "./dates";
 import { formatMoney } from "./money";
@@ -35,7 +36,6 @@ export type AgendaFacts = {
 export type AgendaLine = { text: string; href?: string; flag?: string };
 export type AgendaEntry = { key: string; title: string; href: string; lines: AgendaLine[]; urgent: boolean };
 
-const count = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`;
 
 function more(total: number, shown: number): AgendaLine[] {
   return total > shown ? [{ text: `and ${total - shown} more` }] : [];
@@ -50,7 +50,7 @@ export function agendaEntries(facts: AgendaFacts, now: Date): AgendaEntry[] {
     const shown = orders.slice(0, AGENDA_LINES);
     entries.push({
       key: "due-soon",
-      title: `${count(total, "order")} due to leave the shop within ${DUE_SOON_DAYS} days`,
+      title: `${countOf(total, "order")} due to leave the shop within ${DUE_SOON_DAYS} days`,
       href: "/orders",
       urgent: shown.some((o) => o.dueDate < today),
       lines: [
@@ -65,15 +65,15 @@ export function agendaEntries(facts: AgendaFacts, now: Date): AgendaEntry[] {
   }
 
   if (facts.drafts) {
-    entries.push({ key: "drafts", title: `${count(facts.drafts, "draft order")} not confirmed yet`, href: "/orders?status=draft", urgent: false, lines: [] });
+    entries.push({ key: "drafts", title: `${countOf(facts.drafts, "draft order")} not confirmed yet`, href: "/orders?status=draft", urgent: false, lines: [] });
   }
   if (facts.ready) {
-    entries.push({ key: "ready", title: `${count(facts.ready, "order")} ready to hand over`, href: "/orders?status=ready", urgent: false, lines: [] });
+    entries.push({ key: "ready", title: `${countOf(facts.ready, "order")} ready to hand over`, href: "/orders?status=ready", urgent: false, lines: [] });
   }
 
   if (facts.unbatched && facts.unbatched.lines + facts.unbatched.recuts > 0) {
     const { lines, recuts, dueBy } = facts.unbatched;
-    const what = [lines > 0 ? count(lines, "order line") : "", recuts > 0 ? count(recuts, "spoiled part", "spoiled parts") + " to cut again" : ""].filter(Boolean).join(" and ");
+    const what = [lines > 0 ? countOf(lines, "order line") : "", recuts > 0 ? countOf(recuts, "spoiled part", "spoiled parts") + " to cut again" : ""].filter(Boolean).join(" and ");
     entries.push({ key: "unbatched", title: `${what} in no batch yet`, href: "/batches", urgent: recuts > 0, lines: lines > 0 ? [{ text: `confirmed lines due by ${formatDate(dueBy)}` }] : [] });
   }
 
@@ -85,7 +85,7 @@ export function agendaEntries(facts: AgendaFacts, now: Date): AgendaEntry[] {
       const shown = planning.slice(0, AGENDA_LINES);
       entries.push({
         key: "to-plan",
-        title: `${count(planning.length, "batch", "batches")} to plan or release`,
+        title: `${countOf(planning.length, "batch", "batches")} to plan or release`,
         href: "/batches",
         urgent: false,
         lines: [...shown.map((b) => line(b, `/batches/${b.id}`, b.status === "open" ? "no plan yet" : "planned, not released")), ...more(planning.length, shown.length)],
@@ -95,7 +95,7 @@ export function agendaEntries(facts: AgendaFacts, now: Date): AgendaEntry[] {
       const shown = atSaw.slice(0, AGENDA_LINES);
       entries.push({
         key: "at-saw",
-        title: `${count(atSaw.length, "batch", "batches")} at the saw`,
+        title: `${countOf(atSaw.length, "batch", "batches")} at the saw`,
         href: "/saw",
         urgent: false,
         lines: [...shown.map((b) => line(b, `/saw/${b.id}`, "released")), ...more(atSaw.length, shown.length)],
@@ -106,10 +106,10 @@ export function agendaEntries(facts: AgendaFacts, now: Date): AgendaEntry[] {
   if (facts.sheetsOut && facts.sheetsOut.length > 0) {
     entries.push({
       key: "sheets-out",
-      title: `${count(facts.sheetsOut.length, "material")} with no full sheet in stock`,
+      title: `${countOf(facts.sheetsOut.length, "material")} with no full sheet in stock`,
       href: "/catalogue/materials",
       urgent: false,
-      lines: facts.sheetsOut.map((m) => ({ text: `${m.materialName} · ${count(m.batches, "batch", "batches")} waiting (racked offcuts may do)` })),
+      lines: facts.sheetsOut.map((m) => ({ text: `${m.materialName} · ${countOf(m.batches, "batch", "batches")} waiting (racked offcuts may do)` })),
     });
   }
 
@@ -125,13 +125,13 @@ export function agendaEntries(facts: AgendaFacts, now: Date): AgendaEntry[] {
       if (status.outOfTolerance) due.push({ text: `${sled.name} · out of the shop's tolerance at its last check`, href: "/sleds" });
       else if (status.stale) due.push({ text: `${sled.name} · last checked ${status.ageDays} days ago (more than ${STALE_AFTER_DAYS})`, href: "/sleds" });
     }
-    if (due.length > 0) entries.push({ key: "sleds", title: `${count(due.length, "sled")} to check for square`, href: "/sleds", urgent: true, lines: due });
+    if (due.length > 0) entries.push({ key: "sleds", title: `${countOf(due.length, "sled")} to check for square`, href: "/sleds", urgent: true, lines: due });
   }
 
   if (facts.unpaidDeposits && facts.unpaidDeposits.count > 0) {
     const { count: n, amounts } = facts.unpaidDeposits;
     const sum = amounts.map((a) => formatMoney(a.amountMinor, a.currency)).join(" and ");
-    entries.push({ key: "deposits", title: `${count(n, "deposit")} asked and not paid, ${sum} in all`, href: "/ledger/deposits", urgent: false, lines: [] });
+    entries.push({ key: "deposits", title: `${countOf(n, "deposit")} asked and not paid, ${sum} in all`, href: "/ledger/deposits", urgent: false, lines: [] });
   }
 
   return entries;

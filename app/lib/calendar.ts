@@ -60,13 +60,8 @@ const DONE: OrderStatus[] = ["ready", "delivered"];
 export function entriesByDay(orders: CalendarOrder[], todayIso: string): Record<string, DayEntry[]> {
   const days: Record<string, DayEntry[]> = {};
   const add = (day: string, entry: DayEntry) => (days[day] ??= []).push(entry);
-  for (const order of [...orders].sort((a, b) => a.number - b.number)) {
-    if (order.status === "cancelled") continue;
-    add(order.dueDate, { kind: "due", order, late: order.dueDate < todayIso && !DONE.includes(order.status) });
-  }
-  for (const order of [...orders].sort((a, b) => a.number - b.number)) {
-    if (order.status === "cancelled") continue;
-    add(order.eventDate, { kind: "event", order, late: false });
-  }
+  const shown = orders.filter((o) => o.status !== "cancelled").sort((a, b) => a.number - b.number);
+  for (const order of shown) add(order.dueDate, { kind: "due", order, late: order.dueDate < todayIso && !DONE.includes(order.status) });
+  for (const order of shown) add(order.eventDate, { kind: "event", order, late: false });
   return days;
 }

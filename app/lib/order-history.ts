@@ -2,6 +2,7 @@
 // "did you change the date?" or "when did the e-mail go?". Pure: the rows come from order_events.
 import { formatDate } from "./dates";
 import { formatMoney } from "./money";
+import { countOf } from "./plural";
 import { STATUS_LABELS, type OrderStatus } from "./order-status";
 
 export type HeaderField = "customer" | "eventDate" | "dueDate" | "notes";
@@ -66,13 +67,11 @@ function shown(field: HeaderField, value: string): string {
   return value;
 }
 
-const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`;
-
 /** One line of the history, for people. */
 export function describeOrderEvent(event: OrderEvent): string {
   switch (event.kind) {
     case "created": {
-      const taken = event.lines === 0 ? "Took the order, with no lines yet" : `Took the order, with ${plural(event.lines, "line")}`;
+      const taken = event.lines === 0 ? "Took the order, with no lines yet" : `Took the order, with ${countOf(event.lines, "line")}`;
       if (event.repeatOf === undefined) return taken;
       const leftOut = event.leftOut?.length ? `; left out ${event.leftOut.join(", ")}, no longer offered` : "";
       return `${taken}, repeating #${event.repeatOf}${leftOut}`;
@@ -85,7 +84,7 @@ export function describeOrderEvent(event: OrderEvent): string {
     case "line_removed":
       return `Removed ${event.quantity} × ${event.product}`;
     case "texts":
-      return `Corrected the texts of ${event.product} (${plural(event.count, "text")})`;
+      return `Corrected the texts of ${event.product} (${countOf(event.count, "text")})`;
     case "status":
       return event.to === "cancelled" ? `Cancelled the order, which was ${STATUS_LABELS[event.from].toLowerCase()}` : MOVED[event.to];
     case "confirmation_sent":

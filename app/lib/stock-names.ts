@@ -1,8 +1,7 @@
 // How screens and printouts name the stock a plan draws, as the catalogue does: its stock panels by
 // their size (a 1220 × 1220 is a panel of its own, not a "full sheet"), and racked offcuts apart.
+import { countOf } from "./plural";
 import { formatSize, type DisplayUnit } from "./units";
-
-const plural = (n: number, one: string, many: string) => `${n} ${n === 1 ? one : many}`;
 
 /** How many stock panels of one size a plan draws. */
 export type SheetSize = { lengthUm: number; widthUm: number; count: number };
@@ -24,8 +23,8 @@ export function sheetSizes(panels: { lengthUm: number; widthUm: number }[]): She
  * plan draws, with the size of each sheet, so a half-sheet never reads as a full one.
  */
 export function stockDrawn(sizes: SheetSize[], offcuts: number, unit: DisplayUnit): string {
-  const sheets = sizes.length ? sizes.map((s) => `${plural(s.count, "sheet", "sheets")} ${formatSize(s.lengthUm, s.widthUm, unit)}`).join(", ") : "no new sheet";
-  return offcuts > 0 ? `${sheets} · ${plural(offcuts, "offcut", "offcuts")}` : sheets;
+  const sheets = sizes.length ? sizes.map((s) => `${countOf(s.count, "sheet", "sheets")} ${formatSize(s.lengthUm, s.widthUm, unit)}`).join(", ") : "no new sheet";
+  return offcuts > 0 ? `${sheets} · ${countOf(offcuts, "offcut", "offcuts")}` : sheets;
 }
 
 /** A panel of a plan by what it is cut from: "stock panel 1220 × 1220 mm" or "racked offcut 800 × 400 mm". */

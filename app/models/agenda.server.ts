@@ -62,9 +62,9 @@ async function sheetsOut(shopId: string) {
     .orderBy(asc(materials.name));
 }
 
-async function sledsToCheck(shopId: string) {
-  const [list, shop] = await Promise.all([listSleds(shopId), getShop(shopId)]);
-  return { list: list.map((s) => ({ id: s.id, name: s.name, lastCheck: s.lastCheck })), toleranceUmPerM: shop.sledToleranceUmPerM };
+async function sledsToCheck(shopId: string, toleranceUmPerM: number) {
+  const list = await listSleds(shopId);
+  return { list: list.map((s) => ({ id: s.id, name: s.name, lastCheck: s.lastCheck })), toleranceUmPerM };
 }
 
 /** Deposits asked and not paid on orders still open, summed per currency (a shop may have changed its currency since). */
@@ -80,7 +80,8 @@ async function unpaidDeposits(shopId: string) {
 }
 
 export async function shopAgenda(shopId: string, role: Role, now = new Date()): Promise<AgendaFacts> {
-  const today = todayIso(now, (await getShop(shopId)).timeZone);
+  const shop = await getShop(shopId);
+  const today = todayIso(now, shop.timeZone);
   const skip = Promise.resolve(undefined);
   const [due, drafts, ready, lines, unfinished, sleds, deposit, out] = await Promise.all([
     can(role, "orders:read") ? dueSoon(shopId, addDays(today, DUE_SOON_DAYS)) : skip,
@@ -88,7 +89,7 @@ export async function shopAgenda(shopId: string, role: Role, now = new Date()): 
     can(role, "orders:write") ? ordersIn(shopId, "ready") : skip,
     can(role, "batches:write") ? unbatched(shopId, addDays(today, BATCH_AHEAD_DAYS)) : skip,
     can(role, "batches:write") || can(role, "floor:read") ? unfinishedBatches(shopId) : skip,
-    can(role, "sleds:write") ? sledsToCheck(shopId) : skip,
+    can(role, "sleds:write") ? sledsToCheck(shopId, shop.sledToleranceUmPerM) : skip,
     can(role, "deposits:read") ? unpaidDeposits(shopId) : skip,
     can(role, "batches:write") ? sheetsOut(shopId) : skip,
   ]);

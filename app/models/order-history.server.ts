@@ -1,5 +1,5 @@
 import { and, asc, eq } from "drizzle-orm";
-import { depositMoves, deposits, orderEvents, orders, users } from "../../db/schema";
+import { depositMoves, deposits, orderEvents, users } from "../../db/schema";
 import { getDb, type Queryable } from "~/db.server";
 import { describeOrderEvent, readOrderEvent, splitEvent, type OrderEvent, type StoredOrderEvent } from "~/lib/order-history";
 
@@ -32,7 +32,6 @@ export async function orderHistory(shopId: string, orderId: string, { deposits: 
     db
       .select({ id: orderEvents.id, kind: orderEvents.kind, detail: orderEvents.detail, at: orderEvents.at, actor: users.name })
       .from(orderEvents)
-      .innerJoin(orders, and(eq(orders.id, orderEvents.orderId), eq(orders.shopId, shopId)))
       .leftJoin(users, eq(users.id, orderEvents.actorId))
       .where(and(eq(orderEvents.orderId, orderId), eq(orderEvents.shopId, shopId))),
     withDeposits

@@ -18,10 +18,10 @@ export async function loader(args: Route.LoaderArgs) {
   const user = requirePermission(args, "orders:read");
   const order = v.is(v.pipe(v.string(), v.uuid()), args.params.orderId) ? await getOrder(user.shopId, args.params.orderId) : null;
   if (!order) throw data("No such order in this shop.", { status: 404 });
-  const shop = await getShop(user.shopId);
+  const [shop, moves] = await Promise.all([getShop(user.shopId), can(user.role, "deposits:read") ? orderMoves(user.shopId, order.id) : null]);
   const paper = paperFrom(new URL(args.request.url), shop.displayUnit);
   if (!paper) throw data('Paper must be "a4" or "letter".', { status: 400 });
-  const money = can(user.role, "deposits:read") ? balanceOf(order.totalMinor, await orderMoves(user.shopId, order.id)) : null;
+  const money = moves ? balanceOf(order.totalMinor, moves) : null;
   const pdf = await handoverPdf(
     {
       title: `Order #${order.number} · handover checklist`,

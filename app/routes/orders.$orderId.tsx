@@ -39,9 +39,10 @@ export async function loader(args: Route.LoaderArgs) {
   if (!order) throw data("No such order in this shop.", { status: 404 });
   const canWrite = can(user.role, "orders:write");
   const seesDeposits = can(user.role, "deposits:read");
+  const shopRead = getShop(user.shopId);
   const [shop, products, customers, materialCost, deposit, moves, proposed, history, progress] = await timed("queries", () =>
     Promise.all([
-      getShop(user.shopId),
+      shopRead,
       canWrite ? productChoices(user.shopId) : [],
       canWrite ? searchCustomers(user.shopId, "") : [],
       can(user.role, "ledger:read") ? orderMaterialCost(user.shopId, order.id) : null,
@@ -49,7 +50,7 @@ export async function loader(args: Route.LoaderArgs) {
       seesDeposits ? orderMoves(user.shopId, order.id) : [],
       canWrite && paymentsConfigured() ? proposedDeposit(user.shopId, order.id) : null,
       orderHistory(user.shopId, order.id, { deposits: seesDeposits }),
-      getShop(user.shopId).then((s) => orderProgress(user.shopId, order, s.timeZone)),
+      shopRead.then((s) => orderProgress(user.shopId, order, s.timeZone)),
     ]),
   );
   const depositView = seesDeposits
