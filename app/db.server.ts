@@ -15,6 +15,10 @@ export function createDatabase(url: string, options: { max?: number } = {}) {
     // Fail fast when the database is away, so requests can answer 503 instead of hanging.
     connect_timeout: 3,
     idle_timeout: 30,
+    // No array columns here, so the driver need not read pg_type on each new connection. When that read
+    // fails (the database stopping or cancelling it), postgres 3.4.9 leaves its rejection unhandled,
+    // which ends a Node process; see porsager/postgres#1192.
+    fetch_types: false,
     onnotice: () => {},
   });
   return { client, db: drizzle(client, { schema }) };

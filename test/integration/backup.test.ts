@@ -14,7 +14,7 @@ import { getDb } from "~/db.server";
 const bin = (name: string) => fileURLToPath(new URL(`../../bin/${name}`, import.meta.url));
 
 async function tableChecksums(url: string) {
-  const sql = postgres(url, { max: 1, onnotice: () => {} });
+  const sql = postgres(url, { max: 1, fetch_types: false, onnotice: () => {} });
   try {
     const tables = await sql<{ name: string }[]>`select table_name as name from information_schema.tables where table_schema = 'public' and table_type = 'BASE TABLE' order by 1`;
     const out: Record<string, { rows: number; md5: string }> = {};

@@ -10,7 +10,7 @@ import * as t from "../../db/schema";
 import { appServer, visible } from "../support/app";
 import { testCluster } from "../support/database";
 import { createShop, signIn, type TestShop } from "../support/factories";
-import { getDb } from "~/db.server";
+import { createDatabase, getDb } from "~/db.server";
 
 const server = await appServer();
 const cluster = testCluster();
@@ -50,7 +50,7 @@ async function lockWaiters(sql: postgres.TransactionSql, answered: () => request
  * pg_terminate_backend, answered by PostgreSQL with 57P01), releases the lock, and gives the answer.
  */
 async function cutMidRequest(table: string, send: () => Sent, cut?: (pids: number[]) => void): Promise<request.Response> {
-  const locker = postgres(process.env.DATABASE_URL!, { max: 1, onnotice: () => {} });
+  const locker = postgres(process.env.DATABASE_URL!, { max: 1, fetch_types: false, onnotice: () => {} });
   let answer: Promise<request.Response> | undefined;
   try {
     await locker.begin(async (sql) => {
@@ -136,5 +136,26 @@ describe("a query loses its connection after the session was found", () => {
     expectUnavailablePage(res);
     cluster.start();
     await expectRecovers(() => request(server).get("/customers").set("Cookie", owner));
+  });
+});
+
+describe("a new connection whose first statement is cancelled", () => {
+  // A 1 ms statement_timeout cancels whatever a connection runs first: the driver's own start-up
+  // read when it makes one. Its failure must reach the query that waited, never escape the process.
+  it("leaves no unhandled rejection behind, so a server process would live on", async () => {
+    const escaped: unknown[] = [];
+    const collect = (reason: unknown) => escaped.push(reason);
+    process.on("unhandledRejection", collect);
+    try {
+      for (let i = 0; i < 10; i++) {
+        const { client } = createDatabase(`${process.env.DATABASE_URL}?statement_timeout=1`, { max: 1 });
+        await client`select 1`.catch(() => {});
+        await client.end({ timeout: 1 });
+      }
+      await new Promise((resolve) => setTimeout(resolve, 100));
+    } finally {
+      process.off("unhandledRejection", collect);
+    }
+    expect(escaped).toEqual([]);
   });
 });
