@@ -18,12 +18,6 @@ export function shiftMonth(month: string, by: number): string {
   return d.toISOString().slice(0, 7);
 }
 
-const TITLE = new Intl.DateTimeFormat("en-GB", { month: "long", year: "numeric", timeZone: "UTC" });
-
-/** "January 2027" */
-export function monthTitle(month: string): string {
-  return TITLE.format(new Date(`${month}-01T00:00:00Z`));
-}
 
 /** The weeks that hold the month, Monday first, each of seven ISO days (the first and last spill into the months beside it). */
 export function monthWeeks(month: string): string[][] {

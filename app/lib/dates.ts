@@ -75,6 +75,14 @@ export function formatDate(isoDate: string): string {
   return text;
 }
 
+const MONTH_LONG = new Intl.DateTimeFormat("en-GB", { month: "long", year: "numeric", timeZone: "UTC" });
+const MONTH_SHORT = new Intl.DateTimeFormat("en-GB", { month: "short", year: "numeric", timeZone: "UTC" });
+
+/** "January 2027" (or "Jan 2027" for tables) from "2027-01". */
+export function monthTitle(month: string, length: "long" | "short" = "long"): string {
+  return (length === "long" ? MONTH_LONG : MONTH_SHORT).format(new Date(`${month}-01T00:00:00Z`));
+}
+
 /** "2 Dec 2026": the day of an instant given as an ISO timestamp, such as when a deposit was paid, where the shop is. */
 export function formatDay(isoTimestamp: string, timeZone = "UTC"): string {
   return formatter(timeZone, "day").format(new Date(isoTimestamp));

@@ -1,6 +1,6 @@
 // Turning cut batches into the bookkeeper's report: a period, rows per material, totals, CSV.
 import Papa from "papaparse";
-import { addDays, isIsoDate } from "./dates";
+import { addDays, formatDate, isIsoDate, monthTitle } from "./dates";
 import { areaHundredths, hundredthsDecimal } from "./ledger";
 
 export type Period = { from: string; to: string; label: string };
@@ -15,6 +15,13 @@ export function parsePeriod(params: URLSearchParams, today: string, fallback: "p
   const [y, m] = chosen.split("-").map(Number);
   const next = m === 12 ? `${y + 1}-01` : `${y}-${String(m + 1).padStart(2, "0")}`;
   return { from: `${chosen}-01`, to: `${next}-01`, label: chosen };
+}
+
+/** The period as people read it: "November 2026", or "Sun, 1 Nov 2026 to Mon, 30 Nov 2026", one day alone (the label stays ISO for files). */
+export function periodTitle(period: Period): string {
+  if (/^\d{4}-\d{2}$/.test(period.label)) return monthTitle(period.label);
+  const last = addDays(period.to, -1);
+  return last === period.from ? formatDate(last) : `${formatDate(period.from)} to ${formatDate(last)}`;
 }
 
 export function previousMonth(today: string): string {

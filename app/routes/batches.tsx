@@ -10,6 +10,7 @@ import { addDays, formatDate, isIsoDate, todayIso } from "~/lib/dates";
 import { parseForm } from "~/lib/forms";
 import { batchCode, batchesToList } from "~/lib/batches";
 import { can } from "~/lib/permissions";
+import { countOf } from "~/lib/plural";
 import { createBatches, listBatches, listHeldLines, proposalPreviews, releaseHold } from "~/models/batches.server";
 import { getShop } from "~/models/shops.server";
 import { timed } from "~/timing.server";
@@ -56,7 +57,9 @@ export default function Batches({ loaderData, actionData }: Route.ComponentProps
   const errors: Record<string, string> = actionData?.errors ?? {};
   const [params] = useSearchParams();
   const routerClicks = useRouterClicks();
-  const lineCount = proposals.reduce((n, p) => n + p.lineCount + p.recutCount, 0);
+  const lineCount = proposals.reduce((n, p) => n + p.lineCount, 0);
+  const recutCount = proposals.reduce((n, p) => n + p.recutCount, 0);
+  const gathered = [lineCount > 0 && countOf(lineCount, "order line"), recutCount > 0 && `${countOf(recutCount, "spoiled part")} to cut again`].filter(Boolean).join(" and ");
   return (
     <div className="space-y-8">
       <PageHeader eyebrow="Planner" title="Batches">
@@ -79,7 +82,7 @@ export default function Batches({ loaderData, actionData }: Route.ComponentProps
           ) : (
             <>
               <p className="text-muted">
-                {lineCount} order line{lineCount === 1 ? "" : "s"} and parts to cut again due by {formatDate(dueBy)} would make {proposals.length} batch{proposals.length === 1 ? "" : "es"}, one per material:
+                {gathered} due by {formatDate(dueBy)} would make {countOf(proposals.length, "batch", "batches")}, one per material:
               </p>
               <ul className="grid gap-3 md:grid-cols-2">
                 {proposals.map((p) => (

@@ -4,7 +4,9 @@ import { requirePermission } from "~/auth.server";
 import { MonthChoice } from "~/components/month-choice";
 import { PageHeader } from "~/components/page-header";
 import { ScrollRegion } from "~/components/scroll-region";
+import { monthTitle } from "~/lib/dates";
 import { DEPOSIT_STATUS_LABELS } from "~/lib/deposits";
+import { periodTitle } from "~/lib/ledger-report";
 import { formatMoney } from "~/lib/money";
 import { depositLedger } from "~/models/deposit-ledger.server";
 import { getShop } from "~/models/shops.server";
@@ -37,7 +39,7 @@ export default function DepositLedger({ loaderData }: Route.ComponentProps) {
       </Form>
 
       <section className="space-y-3">
-        <h2 id="deposit-orders" className="text-xl font-semibold">{period.label}: orders with deposits</h2>
+        <h2 id="deposit-orders" className="text-xl font-semibold">{periodTitle(period)}: orders with deposits</h2>
         <p className="text-sm text-muted">
           Received {money(totals.receivedInPeriodMinor)} · refunded {money(totals.refundedInPeriodMinor)} in this period. Paid and refunded count each order to date; the balance after deposit is what the order total leaves to collect.
         </p>
@@ -100,7 +102,7 @@ export default function DepositLedger({ loaderData }: Route.ComponentProps) {
                 <tr key={m.month} className={m.receivedMinor || m.refundedMinor ? "" : "text-muted"}>
                   <th className="px-3 py-2 font-medium">
                     <Link to={`?month=${m.month}`} className="hover:underline">
-                      {m.month}
+                      {monthTitle(m.month, "short")}
                     </Link>
                   </th>
                   <td className="px-3 py-2 text-right tabular-nums">{money(m.receivedMinor)}</td>

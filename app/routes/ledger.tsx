@@ -8,7 +8,7 @@ import { PageHeader } from "~/components/page-header";
 import { ScrollRegion } from "~/components/scroll-region";
 import { formatDate } from "~/lib/dates";
 import { formatArea } from "~/lib/ledger";
-import { yieldOf, type Figures } from "~/lib/ledger-report";
+import { periodTitle, yieldOf, type Figures } from "~/lib/ledger-report";
 import { formatMoney } from "~/lib/money";
 import { ledgerReport } from "~/models/ledger-report.server";
 import { getShop } from "~/models/shops.server";
@@ -69,7 +69,7 @@ export default function Ledger({ loaderData }: Route.ComponentProps) {
       </Form>
 
       <section className="space-y-3">
-        <h2 id="per-material" className="text-xl font-semibold">{period.label}: per material</h2>
+        <h2 id="per-material" className="text-xl font-semibold">{periodTitle(period)}: per material</h2>
         <ScrollRegion labelledBy="per-material">
           <table className="w-full min-w-[64rem] text-left text-sm" data-testid="ledger-summary">
             <thead className="border-b border-line text-xs uppercase tracking-wider text-muted">

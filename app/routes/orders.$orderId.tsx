@@ -221,7 +221,7 @@ export default function OrderPage({ loaderData, actionData }: Route.ComponentPro
         <PageHeader eyebrow={`Order · ${order.customerName}`} title={`Order #${order.number}`}>
           Event {formatDate(order.eventDate)} · due {formatDate(order.dueDate)}
         </PageHeader>
-        <div className="text-right">
+        <div className="sm:text-right">
           <StatusBadge status={order.status} />
           <p className="mt-2 text-2xl font-semibold tabular-nums">{formatMoney(order.totalMinor, currency)}</p>
           {materialCost && (

@@ -182,6 +182,7 @@ export default function FloorView({ loaderData, actionData }: Route.ComponentPro
             ))}
           </ul>
         )}
+        {recuts.length === 0 && !canWrite && <p className="text-muted">{batch.status === "released" ? "No part reported spoiled yet." : "No part was reported spoiled in this batch."}</p>}
         {canWrite && <SpoilForm parts={parts} errors={errors} />}
       </section>
 

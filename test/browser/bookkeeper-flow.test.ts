@@ -1,4 +1,5 @@
 import { eq } from "drizzle-orm";
+import { execFileSync } from "node:child_process";
 import { readFileSync } from "node:fs";
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
@@ -39,7 +40,8 @@ describe("the bookkeeper in chromium", () => {
     await page.getByRole("heading", { level: 1, name: "Ledger" }).waitFor();
 
     const month = previousMonth(new Date().toISOString().slice(0, 10));
-    await page.getByRole("heading", { name: `${month}: per material` }).waitFor(); // last month is the default
+    const monthName = execFileSync("date", ["-d", `${month}-01`, "+%B %Y"], { env: { ...process.env, LC_ALL: "C" }, encoding: "utf8" }).trim(); // GNU date names it
+    await page.getByRole("heading", { name: `${monthName}: per material` }).waitFor(); // last month is the default
     const summary = page.getByTestId("ledger-summary");
     await summary.getByRole("rowheader", { name: "Birch plywood 6 mm" }).waitFor();
     await summary.getByRole("rowheader", { name: "MDF 6 mm" }).waitFor();

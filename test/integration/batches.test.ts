@@ -260,6 +260,8 @@ describe("the batches page at a busy shop's scale", () => {
     const page = visible((await request(server).get("/batches?dueBy=2027-01-15").set("Cookie", planner)).text);
     // 6 mm: the wedding's table numbers and sign, the party's table numbers, and 15 orders of two signs.
     expect(page).toContain("18 lines, 36 items");
+    expect(page).toMatch(/\d+ order lines due by [^.]+ would make 2 batches, one per material/);
+    expect(page).not.toContain("to cut again");
     expect(page).toContain("and 6 more, listed on the batch once it is created");
     const created = await request(server).post("/batches").set("Cookie", planner).type("form").send({ intent: "create", dueBy: "2027-01-15" });
     expect(created.status).toBe(302);
@@ -559,6 +561,8 @@ describe("the order page tells where each line is", () => {
     const origin = { orderId: s.wedding.id, orderNumber: s.wedding.number, customerName: "Ardent–Vasquez wedding", lineId: (await numbers).id, productName: "Table number", partName: "Number card", itemIndex: 1, text: "Table 2" };
     expect(await spoilPart(s.shop.id, s.shop.users.sawyer.id, cut, { partName: "Number card", lengthUm: mm(210), widthUm: mm(150), grainLocked: true, process: "saw" }, [origin], "chipped edge")).toBe(true);
     expect(await page()).toContain(`Number card spoiled in ${code}: waiting to be cut again`);
+    const gather = visible((await request(server).get("/batches?dueBy=2027-01-12").set("Cookie", owner)).text);
+    expect(gather).toMatch(/(?<!order lines? and )1 spoiled part to cut again due by [^.]+ would make 1 batch, one per material/);
     // Another shop's reader never sees this order at all.
     const other = await createShop("Other progress");
     expect((await request(server).get(`/orders/${s.wedding.id}`).set("Cookie", await signIn(server, other.users.owner))).status).toBe(404);

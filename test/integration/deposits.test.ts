@@ -1,6 +1,7 @@
 // Deposits end to end over HTTP: the owner confirms and the customer's e-mail carries a payment link;
 // the link opens a Checkout Session at the local fake payment service (started by bin/test); webhook
 // events are verified, recorded once, in minor units; the owner refunds; the bookkeeper reads.
+import { execFileSync } from "node:child_process";
 import { parse } from "csv-parse/sync";
 import { and, desc, eq } from "drizzle-orm";
 import request from "supertest";
@@ -387,6 +388,8 @@ describe("deposits", () => {
     expect(html).toContain(`#${paid.number}`);
     expect(html).toContain(`#${asked.number}`);
     expect(html).toContain("Received £50.00 · refunded £0.00 in this period");
+    const monthName = execFileSync("date", ["-d", `${month}-01`, "+%B %Y"], { env: { ...process.env, LC_ALL: "C" }, encoding: "utf8" }).trim(); // GNU date names it
+    expect(html).toContain(`${monthName}: orders with deposits`);
 
     const ledger = await depositLedger(fresh.id, new URLSearchParams({ month }));
     expect(ledger.orders.map((o) => [o.orderNumber, o.askedMinor, o.paidMinor, o.balanceMinor])).toEqual([

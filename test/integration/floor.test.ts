@@ -66,6 +66,7 @@ describe("the floor", () => {
 
     const planner = await signIn(server, r.shop.users.planner);
     expect((await request(server).get(api).set("Cookie", planner)).status).toBe(200); // the planner's view follows
+    expect(visible((await request(server).get(`/saw/${r.batchId}`).set("Cookie", planner)).text)).toContain("No part reported spoiled yet.");
     expect((await request(server).post(api).set("Cookie", planner).send({ setupIndex: 0 })).status).toBe(403);
 
     const parts = mergeBatchParts(await batchSources(r.batchId));
@@ -98,6 +99,9 @@ describe("the floor", () => {
     form[`width-${keep.id}`] = "351.5";
     const closed = await request(server).post(`/saw/${r.batchId}`).set("Cookie", sawyer).type("form").send(form);
     expect(closed.status).toBe(302);
+    const after = visible((await request(server).get(`/saw/${r.batchId}`).set("Cookie", sawyer)).text);
+    expect(after).toContain("goes into the next batch");
+    expect(after).not.toContain("reported spoiled");
 
     const [batch] = await db.select().from(t.batches).where(eq(t.batches.id, r.batchId));
     expect(batch.status).toBe("cut");

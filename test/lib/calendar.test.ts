@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { entriesByDay, monthTitle, monthWeeks, parseMonth, shiftMonth, type CalendarOrder } from "~/lib/calendar";
+import { monthTitle } from "~/lib/dates";
+import { entriesByDay, monthWeeks, parseMonth, shiftMonth, type CalendarOrder } from "~/lib/calendar";
 
 describe("the calendar's month", () => {
   it("reads the month from the address, or falls back to today's", () => {
@@ -11,6 +12,7 @@ describe("the calendar's month", () => {
     expect(shiftMonth("2026-12", 1)).toBe("2027-01");
     expect(shiftMonth("2027-01", -1)).toBe("2026-12");
     expect(monthTitle("2027-01")).toBe("January 2027");
+    expect(monthTitle("2026-11", "short")).toBe("Nov 2026");
   });
 
   // Weekdays as GNU date gives them: 1 Feb 2027 a Monday, 1 Aug 2027 a Sunday, 31 Jan 2028 a Monday.

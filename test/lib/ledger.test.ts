@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import { areaHundredths, batchLedger, formatArea, splitByWeight } from "~/lib/ledger";
+import { parsePeriod, periodTitle } from "~/lib/ledger-report";
 
 describe("a hand-worked batch", () => {
   // Two full sheets of 2440 × 1220 mm at £52.90 and one racked offcut of 1000 × 500 mm drawn.
@@ -92,5 +93,19 @@ describe("the ledger's one rounding rule (screen and CSV)", () => {
         expect(Math.round(Number(formatArea(areas, unit).split(" ")[0]) * 100)).toBe(Math.round(parts.reduce((s, p) => s + p, 0)));
       }),
     );
+  });
+});
+
+describe("the period's title, as the ledger's headings show it", () => {
+  // Month names and weekdays checked against GNU date: `date -d 2026-11-01 "+%B %Y"` is November 2026,
+  // 3 and 10 Nov 2026 are Tuesdays, 31 Dec 2026 a Thursday.
+  it("names a month in words, a range by its first and last days and one day alone, while the label stays ISO", () => {
+    const month = parsePeriod(new URLSearchParams({ month: "2026-11" }), "2026-12-02");
+    expect(periodTitle(month)).toBe("November 2026");
+    expect(month.label).toBe("2026-11");
+    expect(periodTitle(parsePeriod(new URLSearchParams({ month: "2026-12" }), "2027-01-05"))).toBe("December 2026");
+    const range = parsePeriod(new URLSearchParams({ from: "2026-11-03", to: "2026-11-10" }), "2026-12-02");
+    expect(periodTitle(range)).toBe("Tue, 3 Nov 2026 to Tue, 10 Nov 2026");
+    expect(periodTitle(parsePeriod(new URLSearchParams({ from: "2026-12-31", to: "2026-12-31" }), "2027-01-02"))).toBe("Thu, 31 Dec 2026");
   });
 });
