@@ -2,7 +2,9 @@
 // settings. Pure: the PDF module only lays these out. Plan lengths are millimetres (the engine's
 // interface); they become integer micrometres here and are formatted in the shop's unit.
 import type { Cut, Placement, Plan, Setup, SheetPlan } from "./packing/types";
-import { fiveCut, formatErrorRate, formatFine, formatKerf, sledWarning, type SledWarning } from "./sled";
+import { formatDay } from "./dates";
+import { countOf } from "./plural";
+import { fiveCut, formatErrorRate, formatFine, formatKerf, sledWarning, STALE_AFTER_DAYS, type SledWarning } from "./sled";
 import { stockName } from "./stock-names";
 import { formatLength, formatMillimetres, formatSize, type DisplayUnit } from "./units";
 
@@ -18,8 +20,9 @@ export type SheetSled = {
 };
 
 export type SetupSheetInput = {
-  batch: { code: string; materialName: string; thicknessUm: number };
-  shop: { name: string; displayUnit: DisplayUnit; sledToleranceUmPerM: number; ripMaxUm: number; sledWidthMaxUm: number; stopMinUm: number; stopMaxUm: number };
+  /** cutOn: the day a batch already cut was cut ("10 Nov 2026"); its sheet then shows the saw and sled as they stood that day */
+  batch: { code: string; materialName: string; thicknessUm: number; cutOn?: string | null };
+  shop: { name: string; timeZone?: string; displayUnit: DisplayUnit; sledToleranceUmPerM: number; ripMaxUm: number; sledWidthMaxUm: number; stopMinUm: number; stopMaxUm: number };
   plan: { number: number; kerfMm: number; plan: Plan; stockRefs: Record<string, SheetStockRef> };
   /** by the plan's part id */
   parts: Record<string, SheetPart>;
@@ -28,6 +31,13 @@ export type SetupSheetInput = {
   saw: { name: string; latestKerfUm: number | null } | null;
   sled: SheetSled | null;
   now: Date;
+};
+
+const WHEN_CUT: Record<Extract<SledWarning, { warn: true }>["reason"], string> = {
+  "no-sled": "No sled was recorded for this plan when the batch was cut.",
+  "no-check": "The sled had no squareness check on record when this batch was cut.",
+  stale: `The sled's last squareness check was more than ${STALE_AFTER_DAYS} days old when this batch was cut.`,
+  "out-of-tolerance": "The sled was out of the shop's tolerance for this batch's longest crosscut when it was cut.",
 };
 
 export type SetupRow = {
@@ -267,9 +277,11 @@ export function buildSetupSheet(input: SetupSheetInput): SetupSheet {
   const check = sled?.lastCheck ? { ...sled.lastCheck, ...fiveCut(sled.lastCheck) } : null;
   const warning: SledWarning = sledWarning(check ? { checkedAt: check.checkedAt, errorUmPerM: check.errorUmPerM } : null, shop.sledToleranceUmPerM, longestCrosscutUm, now, Boolean(sled));
   const sledCheck: string[] = [];
+  const cutOn = batch.cutOn ?? null;
   if (check) {
-    const day = check.checkedAt.toISOString().slice(0, 10);
-    sledCheck.push(`Last five-cut check ${day}${warning.ageDays !== undefined ? ` (${warning.ageDays} days ago)` : ""}: error ${formatErrorRate(check.errorUmPerM, unit)}.`);
+    const day = formatDay(check.checkedAt.toISOString(), shop.timeZone);
+    const age = warning.ageDays === undefined ? "" : ` (${countOf(warning.ageDays, "day")} ${cutOn ? "before the cut" : "ago"})`;
+    sledCheck.push(`Last five-cut check ${day}${age}: error ${formatErrorRate(check.errorUmPerM, unit)}.`);
     if (longestCrosscutUm > 0 && warning.errorOverLengthUm !== undefined && warning.allowedUm !== undefined) {
       sledCheck.push(`Over this batch's longest crosscut (${len(longestCrosscutUm)}): ${formatFine(warning.errorOverLengthUm, unit)}; the shop allows ${formatFine(warning.allowedUm, unit)}.`);
     }
@@ -285,13 +297,14 @@ export function buildSetupSheet(input: SetupSheetInput): SetupSheet {
   return {
     unit,
     title: `${batch.code} · set-up sheet`,
-    subtitle: `${batch.materialName}, ${len(batch.thicknessUm)} thick · plan ${plan.number} · ${sheets.length} ${sheets.length === 1 ? "panel" : "panels"} · ${setups.length} set-ups · ${shop.name}`,
+    subtitle: `${batch.materialName}, ${len(batch.thicknessUm)} thick · plan ${plan.number} · ${sheets.length} ${sheets.length === 1 ? "panel" : "panels"} · ${setups.length} set-ups · ${shop.name}${cutOn ? ` · cut ${cutOn}, shown as it stood that day` : ""}`,
     pull,
     kerf,
     saw: saw ? `Saw: ${saw.name}` : "Saw: none chosen in the plan settings.",
     sled: sled ? `Sled: ${sled.name} · stop block ${len(sled.stopMinUm)} to ${len(sled.stopMaxUm)} from the cut line · widest piece ${len(sled.widestUm)}` : "Sled: none chosen in the plan settings.",
     sledCheck,
-    warning: warning.warn ? warning.message : null,
+    // A reprint of a cut batch tells what stood that day, not what to do before cutting it.
+    warning: warning.warn ? (cutOn ? WHEN_CUT[warning.reason] : warning.message) : null,
     panels,
     setups,
     offcutsToRack: panels.flatMap((p) => p.offcutsToRack.map((s) => `${s} — from panel ${p.number}`)),

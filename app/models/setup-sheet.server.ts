@@ -3,6 +3,7 @@
 import { and, eq, inArray } from "drizzle-orm";
 import { offcuts } from "../../db/schema";
 import { getDb } from "~/db.server";
+import { formatDay } from "~/lib/dates";
 import type { SetupSheetInput, SheetPart } from "~/lib/setup-sheet";
 import { getBatch } from "./batches.server";
 import { batchCutList, LASER_BLANK_PART, type BatchCutList } from "./plan-job.server";
@@ -50,7 +51,7 @@ export async function setupSheetInput({ batch, plan, result, shop, cutList }: Re
     plan.settings.sledId ? getSled(shop.id, plan.settings.sledId, asOf) : null,
   ]);
   return {
-    batch: { code: batch.code, materialName: batch.materialName, thicknessUm: batch.thicknessUm },
+    batch: { code: batch.code, materialName: batch.materialName, thicknessUm: batch.thicknessUm, cutOn: batch.cutAt ? formatDay(batch.cutAt.toISOString(), shop.timeZone) : null },
     shop,
     plan: { number: plan.number, kerfMm: plan.settings.kerfMm, plan: result.plan, stockRefs: result.stockRefs },
     parts,

@@ -236,6 +236,9 @@ describe("the set-up sheet of a batch already cut", () => {
 
     const sheet = flat(text(pdfOf(await get(`/batches/${six.id}/setup-sheet`, await signIn(server, s.shop.users.sawyer)), "cut-batch")));
     expect(sheet).not.toContain("WARNING");
+    const cutDay = new Intl.DateTimeFormat("en-GB", { day: "numeric", month: "short", year: "numeric", timeZone: "UTC" }).format(day(-2));
+    expect(sheet).toContain(`cut ${cutDay}, shown as it stood that day`);
+    expect(sheet).toContain("(1 day before the cut)");
     expect(sheet).toContain("error 0.013 mm per metre"); // the check of day −3: 0.02 mm / (4 × 400 mm) × 1000 mm
     expect(sheet).not.toContain("0.625 mm per metre"); // the check after the cut
     expect(sheet).toContain("kerf 3.20 mm");

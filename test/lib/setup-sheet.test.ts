@@ -82,6 +82,23 @@ describe("set-up sheet derivation", () => {
     expect(sheetOut.cautions).toBe(CAUTIONS);
     expect(sheetOut.saw).toBe("Saw: none chosen in the plan settings.");
   });
+
+  it("a reprint of a batch already cut tells how the sled stood that day, not what to do before cutting", () => {
+    const reprint = buildSetupSheet({ ...input, batch: { ...input.batch, cutOn: "10 Nov 2026" } });
+    expect(reprint.subtitle).toMatch(/· cut 10 Nov 2026, shown as it stood that day$/);
+    expect(reprint.warning).toBe("The sled had no squareness check on record when this batch was cut.");
+    expect(sheetOut.subtitle).not.toContain("cut 10 Nov");
+    // A check 20 days before the cut, square to 0.010 mm over a 500 mm strip: no warning, its age told from the cut.
+    const lastCheck = { checkedAt: new Date("2026-11-11T00:00:00Z"), widthFirstEndUm: 100_010, widthSecondEndUm: 100_000, stripLengthUm: 500_000, pivotDistanceUm: 600_000 };
+    const checked = buildSetupSheet({ ...input, batch: { ...input.batch, cutOn: "1 Dec 2026" }, sled: { ...input.sled!, lastCheck } });
+    expect(checked.warning).toBeNull();
+    expect(checked.sledCheck[0]).toMatch(/^Last five-cut check 11 Nov 2026 \(20 days before the cut\)/);
+    // Auckland is 13 hours ahead in November (NZDT): 23:30 UTC on the 11th is the 12th there (GNU date: Thu Nov 12 12:30 NZDT).
+    const late = buildSetupSheet({ ...input, shop: { ...input.shop, timeZone: "Pacific/Auckland" }, sled: { ...input.sled!, lastCheck: { ...lastCheck, checkedAt: new Date("2026-11-11T23:30:00Z") } } });
+    expect(late.sledCheck[0]).toMatch(/^Last five-cut check 12 Nov 2026 /);
+    const stale = buildSetupSheet({ ...input, batch: { ...input.batch, cutOn: "1 Dec 2026" }, sled: { ...input.sled!, lastCheck: { ...lastCheck, checkedAt: new Date("2026-08-01T00:00:00Z") } } });
+    expect(stale.warning).toBe("The sled's last squareness check was more than 90 days old when this batch was cut.");
+  });
 });
 
 describe("part labels", () => {
