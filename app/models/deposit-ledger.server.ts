@@ -4,7 +4,7 @@ import { getDb } from "~/db.server";
 import { localStamp, todayIso } from "~/lib/dates";
 import { depositMonths, depositOrderRows, totalsOf } from "~/lib/deposit-ledger";
 import { parsePeriod } from "~/lib/ledger-report";
-import { orderTotal } from "./deposits.server";
+import { orderTotal } from "./order-sql.server";
 import { getShop } from "./shops.server";
 
 
@@ -32,7 +32,7 @@ export async function depositLedger(shopId: string, params: URLSearchParams) {
       orderId: orders.id,
       orderNumber: orders.number,
       customerName: customers.name,
-      orderTotalMinor: orderTotal(orders.id),
+      orderTotalMinor: orderTotal(),
       amountMinor: deposits.amountMinor,
       status: deposits.status,
       requestedAt: deposits.requestedAt,

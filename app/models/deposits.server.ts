@@ -1,19 +1,16 @@
 import { randomBytes } from "node:crypto";
-import { and, asc, desc, eq, inArray, sql, type SQLWrapper } from "drizzle-orm";
+import { and, asc, desc, eq, inArray } from "drizzle-orm";
 import Stripe from "stripe";
-import { customers, depositMoves, deposits, orderLines, orders, shops } from "../../db/schema";
+import { customers, depositMoves, deposits, orders, shops } from "../../db/schema";
 import { getDb } from "~/db.server";
 import { balanceOf, depositFor, unchargeableDeposit, type DepositStatus } from "~/lib/deposits";
 import { payments } from "~/payments.server";
+import { orderTotal } from "./order-sql.server";
 
 /** A deposit that cannot be asked or refunded as things stand; the message is for people. */
 export class DepositError extends Error {}
 
 type Tx = Parameters<Parameters<ReturnType<typeof getDb>["transaction"]>[0]>[0];
-
-/** An order's total in minor units, in SQL: for an order id, or for the `orders.id` column of a query. */
-export const orderTotal = (orderId: string | SQLWrapper) =>
-  sql<number>`coalesce((select sum(${orderLines.quantity}::bigint * ${orderLines.unitPriceMinor}) from ${orderLines} where ${orderLines.orderId} = ${orderId}), 0)::bigint`;
 
 /** What the shop's rule would ask of this order now, in the shop's currency; null when it asks nothing. */
 async function proposal(shopId: string, orderId: string): Promise<{ amountMinor: number; currency: string } | null> {

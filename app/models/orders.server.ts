@@ -9,6 +9,7 @@ import { headerChanges } from "~/lib/order-history";
 import { checkLineTexts } from "~/lib/order-lines";
 import { canMoveTo, linesEditable, ORDER_STATUSES, type OrderStatus } from "~/lib/order-status";
 import { logOrderEvent, type EventContext } from "./order-history.server";
+import { ORDER_ID, orderItemCount, orderTotal } from "./order-sql.server";
 
 export const ORDER_SORTS = ["number", "customer", "event", "due", "status", "total"] as const;
 export type OrderSort = (typeof ORDER_SORTS)[number];
@@ -21,11 +22,10 @@ export function orderListQuery(request: Request): ListQuery<OrderSort> {
   return parseListQuery(new URL(request.url).searchParams, { sorts: ORDER_SORTS, defaultSort: "due", defaultDir: "asc", filters: ORDER_FILTERS });
 }
 
-const lineTotal = sql<number>`coalesce((select sum(${orderLines.quantity}::bigint * ${orderLines.unitPriceMinor}) from ${orderLines} where ${orderLines.orderId} = ${orders.id}), 0)::bigint`;
-const itemCount = sql<number>`coalesce((select sum(${orderLines.quantity}) from ${orderLines} where ${orderLines.orderId} = ${orders.id}), 0)::int`;
+const lineTotal = orderTotal();
 // The order's personalisation texts, one row each, for the search: a guest's name finds their order.
 const textsLike = (pattern: string) =>
-  sql`from ${orderLines} ol cross join lateral jsonb_array_elements_text(ol.personalisation) as t(text) where ol.order_id = ${orders.id} and t.text ilike ${pattern}`;
+  sql`from ${orderLines} ol cross join lateral jsonb_array_elements_text(ol.personalisation) as t(text) where ol.order_id = ${ORDER_ID} and t.text ilike ${pattern}`;
 // The status of the order's latest deposit (one index probe per listed order), null when none was asked.
 const latestDeposit = sql<DepositStatus | null>`(select d.status from deposits d where d.shop_id = "orders"."shop_id" and d.order_id = "orders"."id" order by d.requested_at desc limit 1)`;
 
@@ -69,7 +69,7 @@ export async function listOrders(shopId: string, query: ListQuery<OrderSort>, { 
         eventDate: orders.eventDate,
         dueDate: orders.dueDate,
         status: orders.status,
-        items: itemCount,
+        items: orderItemCount,
         totalMinor: lineTotal,
         deposit: seesDeposits ? latestDeposit : sql<null>`null`,
         matched: q ? sql<string | null>`(select t.text ${textsLike(likePattern(q))} order by ol.id limit 1)` : sql<null>`null`,

@@ -69,6 +69,18 @@ describe("customers", () => {
     expect(found.text).toContain("Ardent–Vasquez wedding");
   });
 
+  it("a customer's page lists each of their orders with its own total", async () => {
+    const customer = (await getDb().insert(customers).values({ shopId: shop.id, name: "Quill & Finch" }).returning())[0];
+    const header = { customerId: customer.id, eventDate: "2027-02-20", dueDate: "2027-02-06", notes: "" };
+    const line = (productId: string, quantity: number) => ({ productId, quantity, personalisation: [], notes: "", files: [] });
+    await createOrder(shop.id, header, [line(catalogue.tableNumber.id, 3), line(catalogue.sign.id, 1)]);
+    await createOrder(shop.id, { ...header, eventDate: "2027-03-06", dueDate: "2027-02-20" }, [line(catalogue.tableNumber.id, 2)]);
+    const page = visible((await request(server).get(`/customers/${customer.id}`).set("Cookie", owner)).text);
+    expect(page).toContain("€104.50"); // 3 × €6.50 + €85.00
+    expect(page).toContain("€13.00"); // 2 × €6.50
+    expect(page).not.toContain("€0.00");
+  });
+
   it("a bookkeeper reads customers but cannot change them", async () => {
     const bookkeeper = await signIn(server, shop.users.bookkeeper);
     expect((await request(server).get(`/customers/${catalogue.customer.id}`).set("Cookie", bookkeeper)).status).toBe(200);
