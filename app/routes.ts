@@ -50,6 +50,7 @@ export default [
     route("ledger/deposits", "routes/ledger.deposits.tsx"),
     route("settings", "routes/settings.tsx"),
     route("team", "routes/team.tsx"),
+    route("account", "routes/account.tsx"),
     route("dev/outbox", "routes/dev.outbox.tsx"),
     route("*", "routes/not-found.tsx"),
   ]),

@@ -14,6 +14,7 @@ const OWNER: readonly Role[] = ["owner"];
 
 export const PERMISSIONS = {
   "dashboard:read": ALL,
+  "account:manage": ALL,
   "orders:read": ["owner", "planner", "bookkeeper"],
   "orders:write": OWNER,
   "customers:read": ["owner", "planner", "bookkeeper"],

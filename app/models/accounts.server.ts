@@ -39,6 +39,14 @@ export async function checkCredentials(email: string, password: string): Promise
   return (await verifyPassword(user.passwordHash, password)) ? user.id : null;
 }
 
+/** A signed-in member's own password changed, when the current one is right; false when it is not. */
+export async function changePassword(userId: string, current: string, next: string): Promise<boolean> {
+  const [user] = await getDb().select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, userId));
+  if (!user || !(await verifyPassword(user.passwordHash, current))) return false;
+  await getDb().update(users).set({ passwordHash: await hashPassword(next) }).where(eq(users.id, userId));
+  return true;
+}
+
 /** Sign-up: a new shop and its first owner, in one transaction. */
 export async function createShopWithOwner(input: { shopName: string; name: string; email: string; password: string }) {
   const passwordHash = await hashPassword(input.password);

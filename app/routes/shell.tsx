@@ -56,6 +56,9 @@ function Person({ user }: { user: { name: string; role: string; shopName: string
       <p className="text-rail-ink/80">
         {user.role} · {user.shopName}
       </p>
+      <a href="/account" className="block text-rail-ink underline underline-offset-2 hover:text-white">
+        Your account and password
+      </a>
       <Form method="post" action="/sign-out">
         <button type="submit" className="mt-1 min-h-10 w-full rounded-md border border-rail-ink/30 px-3 text-rail-ink hover:bg-rail-hover">
           Sign out

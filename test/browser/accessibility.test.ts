@@ -80,6 +80,7 @@ describe("accessibility of the main screens (axe-core, WCAG 2.1 AA)", () => {
       "/ledger",
       "/ledger/deposits",
       "/team",
+      "/account",
       "/settings",
     );
   }, 180_000); // the app, a browser and a plan run to its end
@@ -109,6 +110,6 @@ describe("accessibility of the main screens (axe-core, WCAG 2.1 AA)", () => {
       }
       expect(found).toEqual({});
       await context.close();
-    }, 240_000); // 24 pages: about 25 s here, several times that on a slow, busy machine
+    }, 240_000); // 25 pages: about 25 s here, several times that on a slow, busy machine
   }
 });

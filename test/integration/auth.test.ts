@@ -215,3 +215,63 @@ describe("response headers (ASVS 4.0.3 V14.4.3–V14.4.7)", () => {
     expect(new Set(nonces).size).toBe(3);
   });
 });
+
+describe("changing one's own password (ASVS 4.0.3 V2.1.5, V2.1.6, V3.3.3)", () => {
+  const NEW = "lantern moss over the weir";
+  const change = (cookie: string, fields: Record<string, string>, address = `10.9.${Math.floor(Math.random() * 250)}.1`) =>
+    request(server).post("/account").set("Cookie", cookie).set("x-stopwise-client-address", address).type("form").send(fields);
+  const signInAs = (email: string, password: string) => request(server).post("/sign-in").type("form").send({ email, password });
+
+  it("asks for the current password, names each bad field, and then ends every other session", async () => {
+    const shop = await createShop("Account");
+    const me = shop.users.sawyer;
+    const here = await signIn(server, me);
+    const elsewhere = await signIn(server, me); // the same person on the saw's tablet
+
+    expect((await request(server).get("/").set("Cookie", here)).text).toContain('href="/account"'); // from every page's person card
+    const page = await request(server).get("/account").set("Cookie", here);
+    expect(page.status).toBe(200);
+    expect(page.text).toContain(me.email);
+
+    const wrong = await change(here, { current: "not my password at all", password: NEW, confirm: NEW });
+    expect(wrong.status).toBe(400);
+    expect(wrong.text).toMatch(/id="field-current-error"[^>]*>That is not your current password\./);
+    const cases: [Record<string, string>, string, RegExp][] = [
+      [{ current: me.password, password: "short one", confirm: "short one" }, "password", /at least 12/],
+      [{ current: me.password, password: NEW, confirm: `${NEW}!` }, "confirm", /The two new passwords differ/],
+      [{ current: me.password, password: me.password, confirm: me.password }, "password", /other than the one you have now/],
+      [{ current: "", password: NEW, confirm: NEW }, "current", /Enter your current password/],
+    ];
+    for (const [fields, field, message] of cases) {
+      const res = await change(here, fields);
+      expect(res.status, field).toBe(400);
+      expect(res.text).toContain(`field-${field}-error`);
+      expect(res.text).toMatch(message);
+    }
+    expect((await signInAs(me.email, me.password)).status).toBe(302); // nothing changed yet
+
+    const done = await change(here, { current: me.password, password: NEW, confirm: NEW });
+    expect(done.status).toBe(302);
+    expect(done.headers.location).toBe("/account?password=changed");
+    const fresh = sessionCookie(done.headers["set-cookie"]);
+    expect((await request(server).get("/account").set("Cookie", here)).status).toBe(302); // this browser's old session ended too
+    expect((await request(server).get("/").set("Cookie", elsewhere)).status).toBe(302); // and the tablet's
+    const after = await request(server).get("/account?password=changed").set("Cookie", fresh);
+    expect(after.status).toBe(200);
+    expect(after.text).toContain("Password changed. You are signed out everywhere else");
+    expect((await signInAs(me.email, me.password)).status).toBe(400);
+    expect((await signInAs(me.email, NEW)).status).toBe(302);
+  });
+
+  it("counts a wrong current password as a failed sign-in: ten, and the account waits", async () => {
+    const shop = await createShop("Account guess");
+    const me = shop.users.planner;
+    const cookie = await signIn(server, me);
+    for (let i = 0; i < 10; i++) expect((await change(cookie, { current: `guess number ${i} here`, password: NEW, confirm: NEW }, `10.8.0.${i}`)).status).toBe(400);
+    const blocked = await change(cookie, { current: me.password, password: NEW, confirm: NEW }, "10.8.1.1");
+    expect(blocked.status).toBe(429);
+    expect(blocked.text).toContain("Too many wrong passwords");
+    expect(Number(blocked.headers["retry-after"])).toBeGreaterThan(0);
+    expect((await signInAs(me.email, me.password)).status).toBe(429); // sign-in shares the count
+  });
+});

@@ -83,6 +83,7 @@ const MATRIX: Record<string, Entry> = {
   "/pay/:token/checkout": { get: all(404), post: NO_ACTION, sample: "/pay/not-a-real-payment-link-token/checkout" },
   "/settings": { get: page("owner", "planner"), post: { ...page("owner"), owner: 400 } },
   "/team": { get: page("owner"), post: { ...page("owner"), owner: 400 } },
+  "/account": { get: page("owner", "planner", "sawyer", "bookkeeper"), post: { ...all(400), signedOut: 302 } },
   "/dev/outbox": { get: page("owner"), post: NO_ACTION },
   "/*": { get: signedOutThen(302, 404), post: signedOutThen(404, 404), sample: "/no-such-place" },
 };
