@@ -47,6 +47,11 @@ export async function changePassword(userId: string, current: string, next: stri
   return true;
 }
 
+/** The name a member goes by in the shop (the team list, order histories, the person card). */
+export async function renameUser(userId: string, name: string): Promise<void> {
+  await getDb().update(users).set({ name }).where(eq(users.id, userId));
+}
+
 /** Sign-up: a new shop and its first owner, in one transaction. */
 export async function createShopWithOwner(input: { shopName: string; name: string; email: string; password: string }) {
   const passwordHash = await hashPassword(input.password);

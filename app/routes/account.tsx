@@ -5,9 +5,9 @@ import { createSessionCookie, invalidateUserSessions, requirePermission } from "
 import { Field, FormAlert, SubmitButton } from "~/components/forms";
 import { PageHeader } from "~/components/page-header";
 import { parseForm } from "~/lib/forms";
-import { PASSWORD_MAX, PASSWORD_MIN, PasswordSchema } from "~/lib/password-policy";
+import { PASSWORD_MAX, PASSWORD_MIN, PasswordSchema, PersonNameSchema } from "~/lib/password-policy";
 import { ROLE_LABELS } from "~/lib/permissions";
-import { changePassword } from "~/models/accounts.server";
+import { changePassword, renameUser } from "~/models/accounts.server";
 import { clearFailedSignIns, clientAddress, recordFailedSignIn, signInBlockedFor } from "~/rate-limit.server";
 
 export function headers({ actionHeaders }: Route.HeadersArgs) {
@@ -16,8 +16,8 @@ export function headers({ actionHeaders }: Route.HeadersArgs) {
 
 export function loader(args: Route.LoaderArgs) {
   const user = requirePermission(args, "account:manage");
-  const changed = new URL(args.request.url).searchParams.get("password") === "changed";
-  return { user: { name: user.name, email: user.email, role: ROLE_LABELS[user.role], shopName: user.shopName }, changed };
+  const params = new URL(args.request.url).searchParams;
+  return { user: { name: user.name, email: user.email, role: ROLE_LABELS[user.role], shopName: user.shopName }, changed: params.get("password") === "changed", renamed: params.get("name") === "saved" };
 }
 
 const ChangeSchema = v.pipe(
@@ -30,12 +30,22 @@ const ChangeSchema = v.pipe(
   v.forward(v.check((i) => i.password === i.confirm, "The two new passwords differ."), ["confirm"]),
 );
 
-type Result = { errors: Record<string, string>; message: string | null };
+const RenameSchema = v.object({ name: PersonNameSchema });
+
+type Result = { errors: Record<string, string>; message: string | null; intent: "name" | "password" };
 
 export async function action(args: Route.ActionArgs) {
   const user = requirePermission(args, "account:manage");
-  const parsed = parseForm(ChangeSchema, await args.request.formData());
-  if (!parsed.ok) return data<Result>({ errors: parsed.errors, message: null }, { status: 400 });
+  const form = await args.request.formData();
+  if (form.get("intent") === "name") {
+    const named = parseForm(RenameSchema, form);
+    if (!named.ok) return data<Result>({ errors: named.errors, message: null, intent: "name" }, { status: 400 });
+    await renameUser(user.id, named.data.name);
+    return redirect("/account?name=saved");
+  }
+  if (form.get("intent") !== "password") return data<Result>({ errors: {}, message: "Unknown action.", intent: "password" }, { status: 400 });
+  const parsed = parseForm(ChangeSchema, form);
+  if (!parsed.ok) return data<Result>({ errors: parsed.errors, message: null, intent: "password" }, { status: 400 });
 
   // Wrong current passwords count as failed sign-ins, so a session left open cannot be used to guess it.
   const address = clientAddress(args.request);
@@ -43,11 +53,11 @@ export async function action(args: Route.ActionArgs) {
   if (waitMs > 0) {
     const minutes = Math.max(1, Math.ceil(waitMs / 60_000));
     const message = `Too many wrong passwords. Wait ${minutes} minute${minutes === 1 ? "" : "s"} and try again, or sign out and reset your password.`;
-    return data<Result>({ errors: {}, message }, { status: 429, headers: { "Retry-After": String(Math.ceil(waitMs / 1000)) } });
+    return data<Result>({ errors: {}, message, intent: "password" }, { status: 429, headers: { "Retry-After": String(Math.ceil(waitMs / 1000)) } });
   }
   if (!(await changePassword(user.id, parsed.data.current, parsed.data.password))) {
     await recordFailedSignIn(user.email, address);
-    return data<Result>({ errors: { current: "That is not your current password." }, message: null }, { status: 400 });
+    return data<Result>({ errors: { current: "That is not your current password." }, message: null, intent: "password" }, { status: 400 });
   }
   await clearFailedSignIns(user.email);
   // Every session of the account ends with the old password (ASVS 4.0.3 V3.3.3); this browser gets a new one.
@@ -56,8 +66,9 @@ export async function action(args: Route.ActionArgs) {
 }
 
 export default function Account({ loaderData, actionData }: Route.ComponentProps) {
-  const { user, changed } = loaderData;
-  const errors: Record<string, string> = actionData?.errors ?? {};
+  const { user, changed, renamed } = loaderData;
+  const errors: Record<string, string> = actionData?.intent === "password" ? actionData.errors : {};
+  const nameErrors: Record<string, string> = actionData?.intent === "name" ? actionData.errors : {};
   return (
     <div className="space-y-8">
       <PageHeader eyebrow="You" title="Your account">
@@ -81,6 +92,18 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
         <p className="text-sm text-muted">Your role is the shop owner's to change, on the Team page.</p>
       </section>
 
+      <section className="max-w-xl space-y-4 rounded-lg border border-line bg-card p-5" aria-labelledby="name-heading">
+        <h2 id="name-heading" className="text-xl font-semibold">
+          Your name
+        </h2>
+        {renamed && <FormAlert tone="ok">Name saved.</FormAlert>}
+        <Form method="post" className="space-y-4" noValidate>
+          <input type="hidden" name="intent" value="name" />
+          <Field label="Name" name="name" required autoComplete="name" defaultValue={user.name} error={nameErrors.name} hint="As the team page and the order histories show it." />
+          <SubmitButton pendingText="Saving…">Save name</SubmitButton>
+        </Form>
+      </section>
+
       <section className="max-w-xl space-y-4 rounded-lg border border-line bg-card p-5" aria-labelledby="password-heading">
         <h2 id="password-heading" className="text-xl font-semibold">
           Change your password
@@ -88,6 +111,7 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
         {changed && <FormAlert tone="ok">Password changed. You are signed out everywhere else; sign in there with the new one.</FormAlert>}
         {actionData?.message && <FormAlert>{actionData.message}</FormAlert>}
         <Form method="post" className="space-y-4" noValidate>
+          <input type="hidden" name="intent" value="password" />
           <Field label="Current password" name="current" type="password" required autoComplete="current-password" error={errors.current} />
           <Field label="New password" name="password" type="password" required autoComplete="new-password" error={errors.password} hint={`At least ${PASSWORD_MIN} characters; a few words together are easy to remember.`} />
           <Field label="New password again" name="confirm" type="password" required autoComplete="new-password" error={errors.confirm} />

@@ -32,7 +32,9 @@ const TeamActionSchema = v.variant("intent", [
 export async function action(args: Route.ActionArgs) {
   const user = requirePermission(args, "team:manage");
   const form = await args.request.formData();
-  const parsed = parseForm(TeamActionSchema, form, ["memberId", "invitationId"]);
+  // Only the invitation shows its role next to a field; a member row's role comes from a fixed list.
+  const hidden = form.get("intent") === "invite" ? ["memberId", "invitationId"] : ["memberId", "invitationId", "role"];
+  const parsed = parseForm(TeamActionSchema, form, hidden);
   if (!parsed.ok) return data({ intent: String(form.get("intent")), errors: parsed.errors, notice: null }, { status: 400 });
   const input = parsed.data;
 

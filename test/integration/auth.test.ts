@@ -219,7 +219,7 @@ describe("response headers (ASVS 4.0.3 V14.4.3–V14.4.7)", () => {
 describe("changing one's own password (ASVS 4.0.3 V2.1.5, V2.1.6, V3.3.3)", () => {
   const NEW = "lantern moss over the weir";
   const change = (cookie: string, fields: Record<string, string>, address = `10.9.${Math.floor(Math.random() * 250)}.1`) =>
-    request(server).post("/account").set("Cookie", cookie).set("x-stopwise-client-address", address).type("form").send(fields);
+    request(server).post("/account").set("Cookie", cookie).set("x-stopwise-client-address", address).type("form").send({ intent: "password", ...fields });
   const signInAs = (email: string, password: string) => request(server).post("/sign-in").type("form").send({ email, password });
 
   it("asks for the current password, names each bad field, and then ends every other session", async () => {
@@ -261,6 +261,26 @@ describe("changing one's own password (ASVS 4.0.3 V2.1.5, V2.1.6, V3.3.3)", () =
     expect(after.text).toContain("Password changed. You are signed out everywhere else");
     expect((await signInAs(me.email, me.password)).status).toBe(400);
     expect((await signInAs(me.email, NEW)).status).toBe(302);
+  });
+
+  it("renames oneself, refusing an empty name on its field; an unknown action changes nothing", async () => {
+    const shop = await createShop("Account name");
+    const me = shop.users.bookkeeper;
+    const cookie = await signIn(server, me);
+    const rename = (fields: Record<string, string>) => request(server).post("/account").set("Cookie", cookie).type("form").send(fields);
+    const blank = await rename({ intent: "name", name: "   " });
+    expect(blank.status).toBe(400);
+    expect(blank.text).toMatch(/id="field-name-error"[^>]*>Enter a name\./);
+    expect((await rename({ intent: "shred", name: "Someone else" })).text).toMatch(/role="alert"[^>]*>Unknown action\./);
+    expect((await getDb().select({ name: users.name }).from(users).where(eq(users.id, me.id)))[0].name).toBe(`bookkeeper ${shop.name.split(" ").pop()}`);
+    const saved = await rename({ intent: "name", name: "  Tobiah Vance  " });
+    expect(saved.status).toBe(302);
+    expect(saved.headers.location).toBe("/account?name=saved");
+    const [row] = await getDb().select({ name: users.name }).from(users).where(eq(users.id, me.id));
+    expect(row.name).toBe("Tobiah Vance");
+    const page = await request(server).get("/account?name=saved").set("Cookie", cookie);
+    expect(page.text).toContain("Name saved.");
+    expect(page.text).toContain("Tobiah Vance"); // the person card reads the name afresh
   });
 
   it("counts a wrong current password as a failed sign-in: ten, and the account waits", async () => {

@@ -78,7 +78,7 @@ beforeAll(async () => {
 });
 afterAll(() => stopPlanRunner());
 
-const INTENTS = ["invite", "role", "remove", "revoke", "move", "resend", "ready-notice", "repeat", "add-lines", "remove-line", "line-texts", "header", "create", "unhold", "move-line", "hold-line", "run-plan", "cancel-plan", "release", "spoil", "close", "add", "discard", "material", "panel", "delete", "request-deposit", "refund-deposit", "retire", "restore", "delete-product", ""];
+const INTENTS = ["invite", "role", "remove", "revoke", "move", "resend", "ready-notice", "repeat", "add-lines", "remove-line", "line-texts", "header", "create", "unhold", "move-line", "hold-line", "run-plan", "cancel-plan", "release", "spoil", "close", "add", "discard", "material", "panel", "delete", "request-deposit", "refund-deposit", "retire", "restore", "delete-product", "name", "password", ""];
 const FIELDS = ["intent", "email", "role", "memberId", "invitationId", "to", "lineId", "customerId", "customer", "eventDate", "dueDate", "notes", "name", "phone", "kerfMm", "trimMm", "seconds", "stages", "objective", "planId", "targetBatchId", "dueBy", "materialId", "length", "width", "location", "grain", "offcutId", "part", "quantity", "reason", "line-0-product", "line-0-quantity", "line-0-texts", "line-0-csvHeader", "line-0-followRows", "setupIndex", "countCut", "parts", "price", "leadTimeDays", "unit", "currency", "deposit", "depositRule", "depositPercent", "depositFixedMinor", "repeatEventDate", "repeatTexts", "current", "password", "confirm"];
 
 const nasty = fc.oneof(

@@ -116,6 +116,11 @@ describe("members and roles", () => {
     expect(changed.status).toBe(200);
     const [planner] = await getDb().select().from(users).where(eq(users.id, shop.users.planner.id));
     expect(planner.role).toBe("sawyer");
+    // A member row's role list cannot offer a role that does not exist: such a form is refused above the page.
+    const madeUp = await request(server).post("/team").set("Cookie", owner).type("form").send({ intent: "role", memberId: shop.users.planner.id, role: "admiral" });
+    expect(madeUp.status).toBe(400);
+    expect(madeUp.text).toMatch(/role="alert"[^>]*>This form could not be read \(role: /);
+    expect((await getDb().select().from(users).where(eq(users.id, shop.users.planner.id)))[0].role).toBe("sawyer");
 
     const removed = await request(server).post("/team").set("Cookie", owner).type("form").send({ intent: "remove", memberId: shop.users.bookkeeper.id });
     expect(removed.status).toBe(200);
