@@ -72,7 +72,7 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
   return (
     <div className="space-y-8">
       <PageHeader eyebrow="You" title="Your account">
-        Who you are signed in as, and your password.
+        Who you are signed in as, the name the shop sees, and your password.
       </PageHeader>
 
       <section className="space-y-3 rounded-lg border border-line bg-card p-5">
