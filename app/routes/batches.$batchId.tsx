@@ -463,7 +463,8 @@ function PlanSettingsFields({ defaults, errors, offcuts, unit, saws, sleds }: { 
   const [kerf, setKerf] = useState(String(defaults.kerf));
   return (
     <>
-      <label className="space-y-1 text-sm font-medium">
+      {/* On a tablet the saw and sled lists take a row each, so their kerf and stop range stay readable. */}
+      <label className="space-y-1 text-sm font-medium md:col-span-3 lg:col-span-1">
         <span>Saw</span>
         <select
           name="sawId"
@@ -483,7 +484,7 @@ function PlanSettingsFields({ defaults, errors, offcuts, unit, saws, sleds }: { 
         </select>
         {err("sawId")}
       </label>
-      <label className="space-y-1 text-sm font-medium md:col-span-2">
+      <label className="space-y-1 text-sm font-medium md:col-span-3 lg:col-span-2">
         <span>Crosscut sled (its stop range and widest piece bound the plan)</span>
         <select name="sledId" defaultValue={sleds[0]?.id ?? ""} className={input}>
           <option value="">None chosen: the shop's saw capacities</option>
