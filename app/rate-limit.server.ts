@@ -1,6 +1,7 @@
 import { RateLimiterDrizzle, RateLimiterRes } from "rate-limiter-flexible";
 import { rateLimits } from "../db/schema";
 import { getDb } from "~/db.server";
+import { countOf } from "~/lib/plural";
 
 // Failed sign-ins: 10 per account and 30 per address in 15 minutes, far below OWASP ASVS 4.0.3
 // V2.2.1's ceiling of 100 failures per account per hour. Unknown e-mails count like known ones, so
@@ -20,6 +21,11 @@ export async function signInBlockedFor(email: string, address: string): Promise<
   const [a, b] = await Promise.all([account.get(email), byAddress.get(address)]);
   const blocked = [a, b].filter((r): r is RateLimiterRes => r !== null && r.remainingPoints <= 0);
   return blocked.length ? Math.max(...blocked.map((r) => r.msBeforeNext)) : 0;
+}
+
+/** How long a blocked person waits: "3 minutes" for the message, and the Retry-After header. */
+export function blockedWait(waitMs: number): { wait: string; headers: { "Retry-After": string } } {
+  return { wait: countOf(Math.max(1, Math.ceil(waitMs / 60_000)), "minute"), headers: { "Retry-After": String(Math.ceil(waitMs / 1000)) } };
 }
 
 export async function recordFailedSignIn(email: string, address: string): Promise<void> {

@@ -1,7 +1,7 @@
 // The shop's month at a glance: the day each order must leave the shop and the day of its event.
 // Weeks run Monday to Sunday; dates are ISO days (see dates.ts). Pure.
 import { addDays } from "./dates";
-import type { OrderStatus } from "./order-status";
+import type { OrderHeading, OrderStatus } from "./order-status";
 
 const MONTH = /^(\d{4})-(0[1-9]|1[0-2])$/;
 
@@ -18,7 +18,6 @@ export function shiftMonth(month: string, by: number): string {
   return d.toISOString().slice(0, 7);
 }
 
-
 /** The weeks that hold the month, Monday first, each of seven ISO days (the first and last spill into the months beside it). */
 export function monthWeeks(month: string): string[][] {
   const first = `${month}-01`;
@@ -31,19 +30,10 @@ export function monthWeeks(month: string): string[][] {
   return weeks;
 }
 
-export interface CalendarOrder {
-  id: string;
-  number: number;
-  customer: string;
-  eventDate: string;
-  dueDate: string;
-  status: OrderStatus;
-}
-
 export interface DayEntry {
   /** due: the day it must leave the shop; event: the customer's day */
   kind: "due" | "event";
-  order: CalendarOrder;
+  order: OrderHeading;
   /** due, not yet ready or handed over, and the day is past */
   late: boolean;
 }
@@ -51,7 +41,7 @@ export interface DayEntry {
 const DONE: OrderStatus[] = ["ready", "delivered"];
 
 /** What falls on each day, by ISO day: dues first, then events, each by order number. Cancelled orders are left out. */
-export function entriesByDay(orders: CalendarOrder[], todayIso: string): Record<string, DayEntry[]> {
+export function entriesByDay(orders: OrderHeading[], todayIso: string): Record<string, DayEntry[]> {
   const days: Record<string, DayEntry[]> = {};
   const add = (day: string, entry: DayEntry) => (days[day] ??= []).push(entry);
   const shown = orders.filter((o) => o.status !== "cancelled").sort((a, b) => a.number - b.number);

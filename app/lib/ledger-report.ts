@@ -3,23 +3,24 @@ import Papa from "papaparse";
 import { addDays, formatDate, isIsoDate, monthTitle } from "./dates";
 import { areaHundredths, hundredthsDecimal } from "./ledger";
 
-export type Period = { from: string; to: string; label: string };
+/** from inclusive, to exclusive; month: "2026-11" when the period is a calendar month, else null */
+export type Period = { from: string; to: string; label: string; month: string | null };
 
 /** ?month=2026-11 or ?from=2026-11-01&to=2026-11-30 (inclusive); default: the month before `today` (or its own month). */
 export function parsePeriod(params: URLSearchParams, today: string, fallback: "previous" | "current" = "previous"): Period {
   const month = params.get("month");
   const from = params.get("from");
   const to = params.get("to");
-  if (from && to && isIsoDate(from) && isIsoDate(to) && from <= to) return { from, to: addDays(to, 1), label: `${from} to ${to}` };
+  if (from && to && isIsoDate(from) && isIsoDate(to) && from <= to) return { from, to: addDays(to, 1), label: `${from} to ${to}`, month: null };
   const chosen = month && /^\d{4}-(0[1-9]|1[0-2])$/.test(month) ? month : fallback === "current" ? today.slice(0, 7) : previousMonth(today);
   const [y, m] = chosen.split("-").map(Number);
   const next = m === 12 ? `${y + 1}-01` : `${y}-${String(m + 1).padStart(2, "0")}`;
-  return { from: `${chosen}-01`, to: `${next}-01`, label: chosen };
+  return { from: `${chosen}-01`, to: `${next}-01`, label: chosen, month: chosen };
 }
 
 /** The period as people read it: "November 2026", or "Sun, 1 Nov 2026 to Mon, 30 Nov 2026", one day alone (the label stays ISO for files). */
 export function periodTitle(period: Period): string {
-  if (/^\d{4}-\d{2}$/.test(period.label)) return monthTitle(period.label);
+  if (period.month) return monthTitle(period.month);
   const last = addDays(period.to, -1);
   return last === period.from ? formatDate(last) : `${formatDate(period.from)} to ${formatDate(last)}`;
 }

@@ -2,6 +2,9 @@
 export const ORDER_STATUSES = ["draft", "confirmed", "in_production", "ready", "delivered", "cancelled"] as const;
 export type OrderStatus = (typeof ORDER_STATUSES)[number];
 
+/** What the order list and the calendar show of each order. */
+export type OrderHeading = { id: string; number: number; customer: string; eventDate: string; dueDate: string; status: OrderStatus };
+
 export const STATUS_LABELS: Record<OrderStatus, string> = {
   draft: "Draft",
   confirmed: "Confirmed",

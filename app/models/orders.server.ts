@@ -7,7 +7,7 @@ import { DEPOSIT_FILTERS, type DepositStatus } from "~/lib/deposits";
 import { likePattern, parseListQuery, type ListQuery } from "~/lib/listing";
 import { headerChanges } from "~/lib/order-history";
 import { checkLineTexts } from "~/lib/order-lines";
-import { canMoveTo, linesEditable, ORDER_STATUSES, type OrderStatus } from "~/lib/order-status";
+import { canMoveTo, linesEditable, ORDER_STATUSES, type OrderHeading, type OrderStatus } from "~/lib/order-status";
 import { logOrderEvent, type EventContext } from "./order-history.server";
 import { ORDER_ID, orderItemCount, orderTotal } from "./order-sql.server";
 
@@ -29,13 +29,7 @@ const textsLike = (pattern: string) =>
 // The status of the order's latest deposit (one index probe per listed order), null when none was asked.
 const latestDeposit = sql<DepositStatus | null>`(select d.status from deposits d where d.shop_id = "orders"."shop_id" and d.order_id = "orders"."id" order by d.requested_at desc limit 1)`;
 
-export type OrderListRow = {
-  id: string;
-  number: number;
-  customer: string;
-  eventDate: string;
-  dueDate: string;
-  status: OrderStatus;
+export type OrderListRow = OrderHeading & {
   items: number;
   totalMinor: number;
   /** The latest deposit's status, for those who may see deposits (else always null). */

@@ -8,7 +8,7 @@ import { parseForm } from "~/lib/forms";
 import { PASSWORD_MAX, PASSWORD_MIN, PasswordSchema, PersonNameSchema } from "~/lib/password-policy";
 import { ROLE_LABELS } from "~/lib/permissions";
 import { changePassword, renameUser } from "~/models/accounts.server";
-import { clearFailedSignIns, clientAddress, recordFailedSignIn, signInBlockedFor } from "~/rate-limit.server";
+import { blockedWait, clearFailedSignIns, clientAddress, recordFailedSignIn, signInBlockedFor } from "~/rate-limit.server";
 
 export function headers({ actionHeaders }: Route.HeadersArgs) {
   return actionHeaders;
@@ -51,9 +51,9 @@ export async function action(args: Route.ActionArgs) {
   const address = clientAddress(args.request);
   const waitMs = await signInBlockedFor(user.email, address);
   if (waitMs > 0) {
-    const minutes = Math.max(1, Math.ceil(waitMs / 60_000));
-    const message = `Too many wrong passwords. Wait ${minutes} minute${minutes === 1 ? "" : "s"} and try again, or sign out and reset your password.`;
-    return data<Result>({ errors: {}, message, intent: "password" }, { status: 429, headers: { "Retry-After": String(Math.ceil(waitMs / 1000)) } });
+    const { wait, headers } = blockedWait(waitMs);
+    const message = `Too many wrong passwords. Wait ${wait} and try again, or sign out and reset your password.`;
+    return data<Result>({ errors: {}, message, intent: "password" }, { status: 429, headers });
   }
   if (!(await changePassword(user.id, parsed.data.current, parsed.data.password))) {
     await recordFailedSignIn(user.email, address);

@@ -21,7 +21,7 @@ export default function DepositLedger({ loaderData }: Route.ComponentProps) {
   const { period, orders, totals, months, currency } = loaderData;
   const [params] = useSearchParams();
   const money = (minor: number) => formatMoney(minor, currency);
-  const month = /^\d{4}-\d{2}$/.test(period.label) ? period.label : "";
+  const month = period.month ?? "";
   const heads = ["Order total", "Deposit asked", "Paid", "Refunded", "Balance after deposit"];
   return (
     <div className="space-y-8">

@@ -52,7 +52,7 @@ export default function Ledger({ loaderData }: Route.ComponentProps) {
     f.spoiledCount ? `${f.spoiledCount} · ${money(f.spoiledCostMinor)}` : "—",
   ];
   const heads = ["Batches", "Stock drawn", "Parts", "Yield", "Offcuts racked", "Scrap and kerf", "Stock cost", "Returned to rack", "Net material", "Scrap cost", "Spoiled (recut)"];
-  const month = /^\d{4}-\d{2}$/.test(period.label) ? period.label : "";
+  const month = period.month ?? "";
   return (
     <div className="space-y-8">
       <PageHeader eyebrow="Bookkeeper" title="Ledger">

@@ -6,7 +6,7 @@ import { AuthCard, Field, FormAlert, SubmitButton } from "~/components/forms";
 import { parseForm } from "~/lib/forms";
 import { EmailSchema } from "~/lib/password-policy";
 import { checkCredentials } from "~/models/accounts.server";
-import { clearFailedSignIns, clientAddress, recordFailedSignIn, signInBlockedFor } from "~/rate-limit.server";
+import { blockedWait, clearFailedSignIns, clientAddress, recordFailedSignIn, signInBlockedFor } from "~/rate-limit.server";
 
 // Passes the action's Retry-After on to the document response.
 export function headers({ actionHeaders }: Route.HeadersArgs) {
@@ -36,9 +36,9 @@ export async function action({ request }: Route.ActionArgs) {
   const address = clientAddress(request);
   const waitMs = await signInBlockedFor(parsed.data.email, address);
   if (waitMs > 0) {
-    const minutes = Math.max(1, Math.ceil(waitMs / 60_000));
-    const message = `Too many sign-in attempts. Wait ${minutes} minute${minutes === 1 ? "" : "s"} and try again, or reset your password.`;
-    return data({ errors: {}, email, message }, { status: 429, headers: { "Retry-After": String(Math.ceil(waitMs / 1000)) } });
+    const { wait, headers } = blockedWait(waitMs);
+    const message = `Too many sign-in attempts. Wait ${wait} and try again, or reset your password.`;
+    return data({ errors: {}, email, message }, { status: 429, headers });
   }
 
   const userId = await checkCredentials(parsed.data.email, password);

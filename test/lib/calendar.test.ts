@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { monthTitle } from "~/lib/dates";
-import { entriesByDay, monthWeeks, parseMonth, shiftMonth, type CalendarOrder } from "~/lib/calendar";
+import { entriesByDay, monthWeeks, parseMonth, shiftMonth } from "~/lib/calendar";
+import type { OrderHeading } from "~/lib/order-status";
 
 describe("the calendar's month", () => {
   it("reads the month from the address, or falls back to today's", () => {
@@ -33,7 +34,7 @@ describe("the calendar's month", () => {
 });
 
 describe("what falls on each day", () => {
-  const order = (number: number, over: Partial<CalendarOrder> = {}): CalendarOrder => ({ id: `o${number}`, number, customer: `C${number}`, eventDate: "2027-01-16", dueDate: "2027-01-02", status: "confirmed", ...over });
+  const order = (number: number, over: Partial<OrderHeading> = {}): OrderHeading => ({ id: `o${number}`, number, customer: `C${number}`, eventDate: "2027-01-16", dueDate: "2027-01-02", status: "confirmed", ...over });
 
   it("puts each order on its due day and its event day, dues first, by number, leaving out cancelled ones", () => {
     const days = entriesByDay([order(1002, { dueDate: "2027-01-16" }), order(1001), order(1003, { status: "cancelled" })], "2026-12-02");
@@ -47,7 +48,7 @@ describe("what falls on each day", () => {
   });
 
   it("marks a due day past as late until the order is ready", () => {
-    const late = (status: CalendarOrder["status"], today: string) => entriesByDay([order(1, { status })], today)["2027-01-02"][0].late;
+    const late = (status: OrderHeading["status"], today: string) => entriesByDay([order(1, { status })], today)["2027-01-02"][0].late;
     expect(late("confirmed", "2027-01-03")).toBe(true);
     expect(late("in_production", "2027-01-03")).toBe(true);
     expect(late("confirmed", "2027-01-02")).toBe(false); // due today is not late yet
